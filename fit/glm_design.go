@@ -1,0 +1,303 @@
+package fit
+
+import (
+	"fmt"
+	"math"
+
+	"gonum.org/v1/gonum/mat"
+)
+
+// This file holds the input handling shared by Ridge and GLM: a
+// column-major copy of the design with its names, the checks on design,
+// outcome and weights, intercept detection, and a column-order
+// Householder QR with rank detection used for the weighted least-squares
+// steps of IRLS.
+
+// reason is the cause of a [DataError]: a short phrase that unwraps to
+// [ErrBadValue].
+type reason string
+
+func (r reason) Error() string { return string(r) }
+func (r reason) Unwrap() error { return ErrBadValue }
+
+const (
+	reasonNotFinite = reason("not finite")
+	reasonNegative  = reason("negative weight")
+)
+
+// estDesign is a validated, column-major copy of a design.
+type estDesign struct {
+	n, p  int
+	cols  [][]float64 // cols[j][i] = x[i, j]
+	names []string
+	w     []float64 // prior weights, all ones when the caller gave none
+	y     []float64 // the caller's outcome (not copied; never written)
+	used  int       // rows with a positive weight
+	sumW  float64
+}
+
+// columnar is implemented by column-stored designs such as features.Table.
+type columnar interface {
+	Column(j int) []float64
+}
+
+// readDesign copies x into column-major storage and checks x, y and
+// weights. It panics with a "fit: " message when the lengths disagree
+// (who names the estimator in the message) and returns a *DataError
+// naming the first bad value, scanning rows in order, design before
+// outcome before weights. All-zero weights give ErrTooFewRows.
+func readDesign(who string, x mat.Matrix, y, weights []float64) (*estDesign, error) {
+	n, p := x.Dims()
+	if len(y) != n {
+		panic(fmt.Sprintf("fit: %s: len(y) = %d, design has %d rows", who, len(y), n))
+	}
+	if weights != nil && len(weights) != n {
+		panic(fmt.Sprintf("fit: %s: len(weights) = %d, design has %d rows", who, len(weights), n))
+	}
+	d := &estDesign{n: n, p: p, cols: make([][]float64, p), names: make([]string, p), y: y}
+	nm, _ := x.(Namer)
+	back := make([]float64, n*p)
+	for j := range p {
+		d.cols[j] = back[j*n : (j+1)*n : (j+1)*n]
+		if nm != nil {
+			d.names[j] = nm.Name(j)
+		} else {
+			d.names[j] = fmt.Sprintf("x%d", j+1)
+		}
+	}
+	switch m := x.(type) {
+	case columnar:
+		for j := range p {
+			copy(d.cols[j], m.Column(j))
+		}
+	case *mat.Dense:
+		raw := m.RawMatrix()
+		for i := range n {
+			row := raw.Data[i*raw.Stride : i*raw.Stride+p]
+			for j, v := range row {
+				d.cols[j][i] = v
+			}
+		}
+	default:
+		for i := range n {
+			for j := range p {
+				d.cols[j][i] = x.At(i, j)
+			}
+		}
+	}
+	for j, c := range d.cols {
+		for i, v := range c {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				return nil, &DataError{Row: i + 1, Column: j + 1, Name: d.names[j], Value: v, Err: reasonNotFinite}
+			}
+		}
+	}
+	for i, v := range y {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return nil, &DataError{Row: i + 1, Name: "outcome", Value: v, Err: reasonNotFinite}
+		}
+	}
+	if weights == nil {
+		d.w = make([]float64, n)
+		for i := range d.w {
+			d.w[i] = 1
+		}
+	} else {
+		for i, v := range weights {
+			switch {
+			case math.IsNaN(v) || math.IsInf(v, 0):
+				return nil, &DataError{Row: i + 1, Name: "weights", Value: v, Err: reasonNotFinite}
+			case v < 0:
+				return nil, &DataError{Row: i + 1, Name: "weights", Value: v, Err: reasonNegative}
+			}
+		}
+		d.w = weights
+	}
+	for _, v := range d.w {
+		if v > 0 {
+			d.used++
+			d.sumW += v
+		}
+	}
+	if d.used == 0 {
+		return nil, fmt.Errorf("%w: every weight is zero (%s)", ErrTooFewRows, who)
+	}
+	return d, nil
+}
+
+// intercept returns the index of the first column that takes one and the
+// same non-zero value in every row with a positive weight, or -1.
+func (d *estDesign) intercept() int {
+	for j, c := range d.cols {
+		first, ok := math.NaN(), true
+		for i, v := range c {
+			if d.w[i] <= 0 {
+				continue
+			}
+			if math.IsNaN(first) {
+				first = v
+			}
+			if v != first {
+				ok = false
+				break
+			}
+		}
+		if ok && first != 0 {
+			return j
+		}
+	}
+	return -1
+}
+
+// orderedQR is a Householder QR of an n × p matrix (column-major) that
+// takes the columns in their given order and skips a column whose part
+// orthogonal to the columns kept before it has a norm of at most
+// rankTol times its own norm. Skipped columns are not estimable. Unlike
+// full pivoting by column norm, this keeps the earlier of two collinear
+// columns, so the column reported as not estimable is always the later
+// one (a zero column is always skipped).
+type orderedQR struct {
+	n     int
+	a     [][]float64 // reflectors below the diagonal, R on and above it, in kept order
+	tau   []float64
+	kept  []int // design indices of the kept columns, in order
+	alias []bool
+}
+
+// rankTol is the relative tolerance of orderedQR's rank decision.
+const rankTol = 1e-7
+
+// factorize computes the QR of the columns cols (each of length n, all
+// copied into q's storage; cols is not modified).
+func (q *orderedQR) factorize(cols [][]float64) {
+	n, p := len(cols[0]), len(cols)
+	q.n = n
+	if cap(q.a) < p {
+		q.a = make([][]float64, p)
+		q.tau = make([]float64, p)
+		q.alias = make([]bool, p)
+	}
+	q.a, q.tau, q.alias = q.a[:p], q.tau[:p], q.alias[:p]
+	q.kept = q.kept[:0]
+	for j := range p {
+		if cap(q.a[j]) < n {
+			q.a[j] = make([]float64, n)
+		}
+		q.a[j] = q.a[j][:n]
+	}
+	k := 0 // rows 0..k-1 are done
+	for j := range p {
+		col := q.a[k] // storage slot for the k-th kept column
+		copy(col, cols[j])
+		norm0 := norm2(col)
+		// apply the reflectors found so far
+		for r := range k {
+			applyReflector(q.a[r][r:], q.tau[r], col[r:])
+		}
+		rest := norm2(col[k:])
+		if norm0 == 0 || rest <= rankTol*norm0 || k == n {
+			q.alias[j] = true
+			continue
+		}
+		q.alias[j] = false
+		// reflector for col[k:], sending it to (beta, 0, ..., 0)
+		alpha := col[k]
+		beta := -math.Copysign(rest, alpha)
+		q.tau[k] = (beta - alpha) / beta
+		scale := 1 / (alpha - beta)
+		for i := k + 1; i < n; i++ {
+			col[i] *= scale
+		}
+		col[k] = beta
+		q.kept = append(q.kept, j)
+		k++
+	}
+}
+
+// applyReflector applies H = I − tau v vᵀ, v = (1, vs[1:]...), to x.
+func applyReflector(vs []float64, tau float64, x []float64) {
+	if tau == 0 {
+		return
+	}
+	s := x[0]
+	for i := 1; i < len(x); i++ {
+		s += vs[i] * x[i]
+	}
+	s *= tau
+	x[0] -= s
+	for i := 1; i < len(x); i++ {
+		x[i] -= s * vs[i]
+	}
+}
+
+func norm2(x []float64) float64 {
+	// scaled to avoid overflow, as LAPACK's Dnrm2 does
+	scale, ssq := 0.0, 1.0
+	for _, v := range x {
+		if v == 0 {
+			continue
+		}
+		a := math.Abs(v)
+		if scale < a {
+			ssq = 1 + ssq*(scale/a)*(scale/a)
+			scale = a
+		} else {
+			ssq += (a / scale) * (a / scale)
+		}
+	}
+	return scale * math.Sqrt(ssq)
+}
+
+// solve returns the least-squares coefficients for right-hand side b
+// (length n, overwritten with Qᵀb) in dst (length p, design order);
+// skipped columns get 0.
+func (q *orderedQR) solve(dst, b []float64) {
+	k := len(q.kept)
+	for r := range k {
+		applyReflector(q.a[r][r:], q.tau[r], b[r:])
+	}
+	for j := range dst {
+		dst[j] = 0
+	}
+	// back substitution with R (R[r][c] = q.a[c][r] for r <= c)
+	for r := k - 1; r >= 0; r-- {
+		s := b[r]
+		for c := r + 1; c < k; c++ {
+			s -= q.a[c][r] * dst[q.kept[c]]
+		}
+		dst[q.kept[r]] = s / q.a[r][r]
+	}
+}
+
+// unscaledCov writes (RᵀR)⁻¹ for the kept columns into cov (p × p,
+// design order); rows and columns of skipped columns are NaN.
+func (q *orderedQR) unscaledCov(cov *mat.SymDense) {
+	k := len(q.kept)
+	// Rinv is upper triangular, Rinv[r][c] for r <= c
+	rinv := make([]float64, k*k)
+	for c := range k {
+		rinv[c*k+c] = 1 / q.a[c][c]
+		for r := c - 1; r >= 0; r-- {
+			s := 0.0
+			for m := r + 1; m <= c; m++ {
+				s += q.a[m][r] * rinv[m*k+c]
+			}
+			rinv[r*k+c] = -s / q.a[r][r]
+		}
+	}
+	p := len(q.alias)
+	for i := range p {
+		for j := i; j < p; j++ {
+			cov.SetSym(i, j, math.NaN())
+		}
+	}
+	for a := range k {
+		for b := a; b < k; b++ {
+			s := 0.0
+			for m := b; m < k; m++ {
+				s += rinv[a*k+m] * rinv[b*k+m]
+			}
+			cov.SetSym(q.kept[a], q.kept[b], s)
+		}
+	}
+}
