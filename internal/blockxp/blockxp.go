@@ -1,0 +1,54 @@
+// Package blockxp holds the small dense kernel behind kalends' batched
+// least-squares path: C (4 × 12 tile) += A (4 × k) · Z (k × 12), with A and
+// Z packed so that the kernel reads both sequentially.
+//
+// On amd64 processors with AVX2 and FMA the kernel is Go assembly; elsewhere
+// (or with the purego build tag) it is plain Go. The two agree to rounding
+// (the assembly fuses multiply and add) but each is deterministic: the sum
+// over k is always taken in increasing k, so a result never depends on how
+// callers split work between goroutines, only on the machine's kernel.
+package blockxp
+
+// Tile is the number of rows of A (and C) one kernel call handles.
+const Tile = 4
+
+// Strip is the number of columns of Z (and C) one kernel call handles.
+const Strip = 12
+
+// Accelerated reports whether the assembly kernel is in use.
+func Accelerated() bool { return hasFMA }
+
+// MulAdd adds A·Z to a 4 × 12 tile of C. ap holds A packed by column
+// (ap[4*l+r] = A[r][l], l < k), zp holds Z packed by row (zp[12*l+j] =
+// Z[l][j]), and the tile is c[r*ldc+j] for r < 4, j < 12. The sum over l
+// is formed in increasing l in registers and then added to c. MulAdd
+// panics if a slice is too short.
+func MulAdd(k int, ap, zp, c []float64, ldc int) {
+	if len(ap) < Tile*k || len(zp) < Strip*k || len(c) < 3*ldc+Strip || ldc < Strip {
+		panic("blockxp: MulAdd: slice too short")
+	}
+	mulAdd(k, ap, zp, c, ldc)
+}
+
+func mulAddGo(k int, ap, zp, c []float64, ldc int) {
+	var acc [Tile][Strip]float64
+	ap = ap[:Tile*k]
+	zp = zp[:Strip*k]
+	for l := 0; l < k; l++ {
+		a := ap[Tile*l : Tile*l+Tile : Tile*l+Tile]
+		z := zp[Strip*l : Strip*l+Strip : Strip*l+Strip]
+		for r := range Tile {
+			ar := a[r]
+			row := &acc[r]
+			for j := range Strip {
+				row[j] += ar * z[j]
+			}
+		}
+	}
+	for r := range Tile {
+		row := c[r*ldc : r*ldc+Strip : r*ldc+Strip]
+		for j := range Strip {
+			row[j] += acc[r][j]
+		}
+	}
+}

@@ -1,0 +1,60 @@
+package blockxp
+
+import (
+	"math"
+	"math/rand/v2"
+	"testing"
+)
+
+// TestMulAdd checks the kernel in use against a plain triple loop, and the
+// plain-Go kernel against the same loop, for several depths.
+func TestMulAdd(t *testing.T) {
+	rnd := rand.New(rand.NewPCG(1, 2))
+	for _, tt := range []struct {
+		name string
+		k    int
+	}{{"empty", 0}, {"one", 1}, {"seven", 7}, {"block", 256}} {
+		t.Run(tt.name, func(t *testing.T) {
+			ldc := 29
+			ap := make([]float64, Tile*tt.k)
+			zp := make([]float64, Strip*tt.k)
+			for i := range ap {
+				ap[i] = float64(rnd.IntN(5))
+			}
+			for i := range zp {
+				zp[i] = rnd.NormFloat64()
+			}
+			c0 := make([]float64, 3*ldc+Strip)
+			for i := range c0 {
+				c0[i] = rnd.NormFloat64()
+			}
+			for name, f := range map[string]func(int, []float64, []float64, []float64, int){"MulAdd": MulAdd, "mulAddGo": mulAddGo} {
+				c := append([]float64(nil), c0...)
+				f(tt.k, ap, zp, c, ldc)
+				for i := range c {
+					r, j := i/ldc, i%ldc
+					want := c0[i]
+					if j < Strip && r < Tile {
+						s := 0.0
+						for l := 0; l < tt.k; l++ {
+							s += ap[Tile*l+r] * zp[Strip*l+j]
+						}
+						want += s
+					}
+					if d := math.Abs(c[i] - want); d > 1e-12*(1+math.Abs(want)) {
+						t.Fatalf("%s: c[%d][%d] got %v, want %v", name, r, j, c[i], want)
+					}
+				}
+			}
+		})
+	}
+}
+
+func TestMulAddPanics(t *testing.T) {
+	defer func() {
+		if recover() == nil {
+			t.Fatal("got no panic for a short slice, want one")
+		}
+	}()
+	MulAdd(2, make([]float64, 7), make([]float64, 24), make([]float64, 48), 12)
+}

@@ -1,0 +1,43 @@
+//go:build amd64 && !purego
+
+package blockxp
+
+//go:noescape
+func mulAdd4x12(k int, ap, zp, c *float64, ldc int)
+
+func cpuid(leaf, sub uint32) (a, b, c, d uint32)
+
+func xgetbv0() (lo, hi uint32)
+
+// hasFMA reports whether the processor and operating system support the
+// AVX2 and FMA instructions the assembly kernel uses.
+var hasFMA = func() bool {
+	maxLeaf, _, _, _ := cpuid(0, 0)
+	if maxLeaf < 7 {
+		return false
+	}
+	_, _, c1, _ := cpuid(1, 0)
+	const fma, osxsave, avx = 1 << 12, 1 << 27, 1 << 28
+	if c1&fma == 0 || c1&osxsave == 0 || c1&avx == 0 {
+		return false
+	}
+	if lo, _ := xgetbv0(); lo&6 != 6 { // XMM and YMM state enabled by the OS
+		return false
+	}
+	_, b7, _, _ := cpuid(7, 0)
+	return b7&(1<<5) != 0 // AVX2
+}()
+
+func mulAdd(k int, ap, zp, c []float64, ldc int) {
+	if !hasFMA {
+		mulAddGo(k, ap, zp, c, ldc)
+		return
+	}
+	if k == 0 {
+		return
+	}
+	_ = ap[4*k-1]
+	_ = zp[Strip*k-1]
+	_ = c[3*ldc+Strip-1]
+	mulAdd4x12(k, &ap[0], &zp[0], &c[0], ldc)
+}

@@ -1,0 +1,7 @@
+//go:build !amd64 || purego
+
+package blockxp
+
+const hasFMA = false
+
+func mulAdd(k int, ap, zp, c []float64, ldc int) { mulAddGo(k, ap, zp, c, ldc) }
