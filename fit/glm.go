@@ -246,7 +246,7 @@ func (s *irls) step(beta []float64, qr *orderedQR) error {
 			wc[i] = v * s.sw[i]
 		}
 	}
-	qr.factorize(s.wcols)
+	qr.factorize(s.wcols, rankTol)
 	if len(qr.kept) > d.used {
 		return fmt.Errorf("%w: %d rows with positive weight for %d estimable coefficients", ErrTooFewRows, d.used, len(qr.kept))
 	}

@@ -120,7 +120,7 @@ func readDesign(who string, x mat.Matrix, y, weights []float64) (*estDesign, err
 		}
 	}
 	if d.used == 0 {
-		return nil, fmt.Errorf("%w: every weight is zero (%s)", ErrTooFewRows, who)
+		return nil, fmt.Errorf("fit: %s: weights: all %d weights are zero: %w", who, n, ErrBadValue)
 	}
 	return d, nil
 }
@@ -151,8 +151,8 @@ func (d *estDesign) intercept() int {
 
 // orderedQR is a Householder QR of an n × p matrix (column-major) that
 // takes the columns in their given order and skips a column whose part
-// orthogonal to the columns kept before it has a norm of at most
-// rankTol times its own norm. Skipped columns are not estimable. Unlike
+// orthogonal to the columns kept before it has a norm of at most tol
+// times its own norm (tol is rankTol for IRLS steps). Skipped columns are not estimable. Unlike
 // full pivoting by column norm, this keeps the earlier of two collinear
 // columns, so the column reported as not estimable is always the later
 // one (a zero column is always skipped).
@@ -168,8 +168,10 @@ type orderedQR struct {
 const rankTol = 1e-7
 
 // factorize computes the QR of the columns cols (each of length n, all
-// copied into q's storage; cols is not modified).
-func (q *orderedQR) factorize(cols [][]float64) {
+// copied into q's storage; cols is not modified) with relative rank
+// tolerance tol; with tol 0 only columns that become exactly zero are
+// skipped.
+func (q *orderedQR) factorize(cols [][]float64, tol float64) {
 	n, p := len(cols[0]), len(cols)
 	q.n = n
 	if cap(q.a) < p {
@@ -195,7 +197,7 @@ func (q *orderedQR) factorize(cols [][]float64) {
 			applyReflector(q.a[r][r:], q.tau[r], col[r:])
 		}
 		rest := norm2(col[k:])
-		if norm0 == 0 || rest <= rankTol*norm0 || k == n {
+		if norm0 == 0 || rest <= tol*norm0 || k == n {
 			q.alias[j] = true
 			continue
 		}

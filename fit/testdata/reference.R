@@ -62,7 +62,10 @@ ridge <- function(case, X, y, w, lambda, intercept = TRUE) {
   Z <- sweep(Xc, 2, s, "/")
   if (intercept) { Z1 <- cbind(1, Z); D <- diag(c(0, rep(1, ncol(Z)))) }
   else { Z1 <- Z; D <- diag(ncol(Z)) }
-  b <- drop(solve(crossprod(Z1, w * Z1) + lambda * D, crossprod(Z1, w * y)))
+  G <- crossprod(Z1, w * Z1)
+  b <- drop(solve(G + lambda * D, crossprod(Z1, w * y)))
+  # effective degrees of freedom: trace of the hat matrix
+  put(case, "edf", "", sum(diag(solve(G + lambda * D, G))))
   if (intercept) {
     beta <- b[-1] / s
     beta <- c(b[1] - sum(beta * m), beta)

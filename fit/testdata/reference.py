@@ -45,6 +45,8 @@ def ridge(case, X, names, y, w, lam, intercept=True):
         Z1, D = Z, np.eye(X.shape[1])
     A = Z1.T @ (w[:, None] * Z1) + lam * D
     b = np.linalg.solve(A, Z1.T @ (w * y))
+    # effective degrees of freedom: trace of the hat matrix
+    put(case, "edf", "", np.trace(np.linalg.solve(A, Z1.T @ (w[:, None] * Z1))))
     if intercept:
         beta = b[1:] / s
         beta = np.concatenate([[b[0] - (beta * m).sum()], beta])
