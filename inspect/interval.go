@@ -140,14 +140,16 @@ func quantileR7(p float64, t []float64) float64 {
 // For [DavisonHinkley] with q = min(p, 1−p), the endpoint is interior when
 // (b+1)q > 1 (boot's check), that is b ≥ ⌊1/q⌋; for q = 0.025 (a 95%
 // percentile interval) b ≥ 40. For [R7] it is interior when (b−1)q ≥ 1,
-// that is b ≥ ⌈1/q⌉ + 1.
+// that is b ≥ ⌈1/q⌉ + 1. Both comparisons allow 1e-9 for rounding: with
+// level 0.95, q is 0.025000000000000022 and 40q exceeds 1 only by rounding,
+// yet the endpoint is then the smallest value to 15 digits.
 func interior(p float64, b int, rule QuantileRule) (ok bool, need int) {
 	q := math.Min(p, 1-p)
 	okAt := func(b int) bool {
 		if rule == R7 {
-			return float64(b-1)*q >= 1
+			return float64(b-1)*q >= 1-1e-9
 		}
-		return float64(b+1)*q > 1
+		return float64(b+1)*q > 1+1e-9
 	}
 	if okAt(b) {
 		return true, b
