@@ -154,8 +154,10 @@ func (f Family) unitDeviance(y, mu, w float64) float64 {
 //	Gamma:    Σ w log f(y; shape 1/φ, scale μφ) with φ = deviance/Σw
 //
 // where C is the binomial coefficient computed with log Γ (so it is
-// defined for non-integer m·y).
-func (f Family) logLik(y, mu, w []float64, dev, sumW float64) float64 {
+// defined for non-integer m·y). With freq the binomial coefficient is left
+// out: the log-likelihood is then that of the m 0/1 rows each proportion
+// stands for.
+func (f Family) logLik(y, mu, w []float64, dev, sumW float64, freq bool) float64 {
 	ll := 0.0
 	switch f {
 	case Poisson:
@@ -173,10 +175,13 @@ func (f Family) logLik(y, mu, w []float64, dev, sumW float64) float64 {
 				continue
 			}
 			k := m * yi
-			a, _ := math.Lgamma(m + 1)
-			b, _ := math.Lgamma(k + 1)
-			c, _ := math.Lgamma(m - k + 1)
-			ll += a - b - c + xlogy(k, mu[i]) + xlogy(m-k, 1-mu[i])
+			if !freq {
+				a, _ := math.Lgamma(m + 1)
+				b, _ := math.Lgamma(k + 1)
+				c, _ := math.Lgamma(m - k + 1)
+				ll += a - b - c
+			}
+			ll += xlogy(k, mu[i]) + xlogy(m-k, 1-mu[i])
 		}
 	case Gamma:
 		phi := dev / sumW

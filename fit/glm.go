@@ -29,10 +29,17 @@ var (
 // Weights are prior weights: for Binomial they are the numbers of trials
 // behind each proportion; for Poisson and Gamma each row's contribution to
 // the log-likelihood is multiplied by its weight. Rows with weight 0 take
-// no part in the fit. Integer weights on a 0/1 binomial outcome, or on any
-// Poisson outcome, give the estimates and standard errors of the data with
-// each row repeated that many times; Stats.Rows and ResidDF still count
-// rows, as R's glm does.
+// no part in the fit. The estimates do not depend on the Weights kind:
+//
+//   - With Precision weights (the zero value), as R's glm(weights = w),
+//     Stats.Rows counts the rows with a positive weight, ResidDF is
+//     Rows − Params (also the divisor of the Gamma dispersion) and BIC
+//     uses log(Rows).
+//   - With Frequency weights, row i stands for w[i] rows (a binomial
+//     proportion with w[i] trials for w[i] 0/1 rows): Rows is Σw and
+//     every statistic, the standard errors and the log-likelihood equal
+//     those of the expanded data (the binomial log-likelihood then has no
+//     binomial-coefficient term, being that of the 0/1 rows).
 //
 // # Algorithm
 //
@@ -72,8 +79,9 @@ var (
 // separation error naming the first such row. At a true maximum the step
 // is many orders of magnitude smaller.
 //
-// Fit panics if Family is not one of the defined families, if MaxIter or
-// Tol is negative or NaN, or if the lengths of x, y and weights disagree.
+// Fit panics if Family or Weights is not one of the defined values, if
+// MaxIter or Tol is negative or NaN, or if the lengths of x, y and
+// weights disagree.
 type GLM struct {
 	// Family is the error distribution and link.
 	Family Family
@@ -82,6 +90,9 @@ type GLM struct {
 	// Tol is the convergence tolerance on the relative change in
 	// deviance (see the Algorithm section); 0 means 1e-8.
 	Tol float64
+	// Weights says what the weights passed to Fit mean (see the type
+	// documentation); Precision by default.
+	Weights WeightKind
 }
 
 // GLMFit is a fitted generalised linear model. It is immutable and safe
@@ -98,19 +109,31 @@ type GLMFit struct {
 }
 
 // Fit fits the model to design x, outcome y and prior weights (nil means
-// all 1). It returns a *GLMFit.
+// all 1) and returns a *GLMFit. See [GLM.FitGLM].
 func (g GLM) Fit(x mat.Matrix, y, weights []float64) (Predictor, error) {
-	f, err := g.fit(x, y, weights)
+	f, err := g.FitGLM(x, y, weights)
 	if err != nil {
 		return nil, err
 	}
 	return f, nil
 }
 
-func (g GLM) fit(x mat.Matrix, y, weights []float64) (*GLMFit, error) {
+// FrequencyWeighted returns a copy of g that reads its weights as
+// frequencies.
+func (g GLM) FrequencyWeighted() Fitter {
+	g.Weights = Frequency
+	return g
+}
+
+// FitGLM is [GLM.Fit] returning the concrete model. Coefficients are
+// named from x if it implements [Namer], else "x1", "x2", and so on.
+func (g GLM) FitGLM(x mat.Matrix, y, weights []float64) (*GLMFit, error) {
 	fam := g.Family
 	if !fam.valid() {
 		panic(fmt.Sprintf("fit: GLM: invalid Family %d", int(fam)))
+	}
+	if g.Weights != Precision && g.Weights != Frequency {
+		panic(fmt.Sprintf("fit: GLM: invalid weight kind %d", int(g.Weights)))
 	}
 	maxIter := g.MaxIter
 	if maxIter < 0 {
@@ -198,7 +221,7 @@ func (g GLM) fit(x mat.Matrix, y, weights []float64) (*GLMFit, error) {
 	if !conv {
 		return nil, &ConvergenceError{Iter: iter, Change: change}
 	}
-	return s.result(beta, devOld, iter), nil
+	return s.result(beta, devOld, iter, g.Weights == Frequency), nil
 }
 
 // irls holds the state of one IRLS run.
@@ -337,14 +360,18 @@ func (s *irls) separated(beta []float64) (int, bool) {
 
 // result builds the fitted model after convergence. beta are the final
 // coefficients; s.qr still holds the factorization of the last step.
-func (s *irls) result(beta []float64, dev float64, iter int) *GLMFit {
+func (s *irls) result(beta []float64, dev float64, iter int, freq bool) *GLMFit {
 	fam, d := s.fam, s.d
 	n, p := d.n, d.p
 	y, w := d.y, d.w
 	rank := len(s.qr.kept)
 	cov := mat.NewSymDense(p, nil)
 	s.qr.unscaledCov(cov)
-	resDF := float64(d.used - rank)
+	nobs := float64(d.used)
+	if freq {
+		nobs = d.sumW
+	}
+	resDF := nobs - float64(rank)
 	disp := 1.0
 	if !fam.fixedDispersion() {
 		chi2 := 0.0
@@ -395,12 +422,11 @@ func (s *irls) result(beta []float64, dev float64, iter int) *GLMFit {
 			nullDev += fam.unitDeviance(y[i], nullMu, w[i])
 		}
 	}
-	ll := fam.logLik(y, s.mu, w, dev, d.sumW)
+	ll := fam.logLik(y, s.mu, w, dev, d.sumW, freq)
 	k := float64(rank)
 	if !fam.fixedDispersion() {
 		k++
 	}
-	nobs := float64(d.used)
 	f.stats = Stats{
 		Rows:         nobs,
 		Params:       rank,
@@ -488,8 +514,8 @@ func (f *GLMFit) CovTo(dst *mat.SymDense) *mat.SymDense {
 }
 
 // Statistics returns the fit statistics. RSquared, AdjRSquared, F and
-// FPValue are NaN. Rows counts rows with a positive weight and ResidDF is
-// Rows − Params. LogLik, AIC and BIC follow R's definitions for these
+// FPValue are NaN. Rows and ResidDF depend on the Weights kind (see
+// [GLM]). LogLik, AIC and BIC follow R's definitions for these
 // families: for Gamma the dispersion counts as one more parameter and the
 // log-likelihood uses the dispersion deviance/Σw; BIC uses log(Rows).
 func (f *GLMFit) Statistics() Stats { return f.stats }
@@ -503,36 +529,65 @@ func (f *GLMFit) Dispersion() float64 { return f.dispersion }
 // or -1 if there is none.
 func (f *GLMFit) Intercept() int { return f.intercept }
 
-// Wald returns, per coefficient in design order, the Wald statistic
-// estimate/stderr and its two-sided p-value: against the standard normal
-// for Poisson and Binomial, and against Student's t with the residual
-// degrees of freedom for Gamma (whose dispersion is estimated), as R's
-// summary.glm does. Entries of coefficients that are not estimable are
-// NaN. stat and p are allocated if nil, otherwise must have one entry per
-// coefficient.
-func (f *GLMFit) Wald(stat, p []float64) ([]float64, []float64) {
-	k := len(f.coefs)
-	if stat == nil {
-		stat = make([]float64, k)
+// WaldStats writes the Wald statistics estimate/stderr into dst and
+// returns it (z for Poisson and Binomial, t for Gamma); NaN for
+// coefficients not estimable. A nil dst is allocated, otherwise it must
+// have one entry per coefficient.
+func (f *GLMFit) WaldStats(dst []float64) []float64 {
+	dst = f.dst("WaldStats", dst)
+	for j, c := range f.coefs {
+		dst[j] = c.Estimate / c.StdErr
 	}
-	if p == nil {
-		p = make([]float64, k)
+	return dst
+}
+
+// PValues writes the two-sided p-values of the Wald statistics into dst
+// and returns it: against the standard normal for Poisson and Binomial,
+// and against Student's t with the residual degrees of freedom for Gamma
+// (whose dispersion is estimated), as R's summary.glm does. dst is as for
+// [GLMFit.WaldStats].
+func (f *GLMFit) PValues(dst []float64) []float64 {
+	dst = f.WaldStats(dst)
+	for j, z := range dst {
+		if f.family.fixedDispersion() {
+			dst[j] = 2 * distuv.UnitNormal.CDF(-math.Abs(z))
+		} else {
+			dst[j] = studentTwoSided(z, f.resDF)
+		}
 	}
-	if len(stat) != k || len(p) != k {
-		panic(fmt.Sprintf("fit: GLMFit.Wald: lengths %d and %d, want %d", len(stat), len(p), k))
+	return dst
+}
+
+// ConfInt writes the limits of two-sided Wald confidence intervals at the
+// given level (such as 0.95) into lo and hi and returns them: estimate ±
+// q·stderr, q the (1+level)/2 quantile of the distribution PValues uses.
+// These are not profile-likelihood intervals; for small samples or
+// estimates near a boundary they can be poor. lo and hi are as dst for
+// [GLMFit.WaldStats]. ConfInt panics unless 0 < level < 1.
+func (f *GLMFit) ConfInt(lo, hi []float64, level float64) ([]float64, []float64) {
+	if !(level > 0 && level < 1) {
+		panic(fmt.Sprintf("fit: GLMFit.ConfInt: level %v outside (0, 1)", level))
+	}
+	lo, hi = f.dst("ConfInt", lo), f.dst("ConfInt", hi)
+	var q float64
+	if f.family.fixedDispersion() {
+		q = distuv.UnitNormal.Quantile((1 + level) / 2)
+	} else {
+		q = studentQuantile((1+level)/2, f.resDF)
 	}
 	for j, c := range f.coefs {
-		if !c.Estimable {
-			stat[j], p[j] = math.NaN(), math.NaN()
-			continue
-		}
-		z := c.Estimate / c.StdErr
-		stat[j] = z
-		if f.family.fixedDispersion() {
-			p[j] = 2 * distuv.UnitNormal.CDF(-math.Abs(z))
-		} else {
-			p[j] = 2 * distuv.StudentsT{Mu: 0, Sigma: 1, Nu: f.resDF}.Survival(math.Abs(z))
-		}
+		lo[j] = c.Estimate - q*c.StdErr
+		hi[j] = c.Estimate + q*c.StdErr
 	}
-	return stat, p
+	return lo, hi
+}
+
+func (f *GLMFit) dst(who string, dst []float64) []float64 {
+	if dst == nil {
+		return make([]float64, len(f.coefs))
+	}
+	if len(dst) != len(f.coefs) {
+		panic(fmt.Sprintf("fit: GLMFit.%s: len(dst) = %d, model has %d coefficients", who, len(dst), len(f.coefs)))
+	}
+	return dst
 }

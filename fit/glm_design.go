@@ -7,7 +7,8 @@ import (
 	"gonum.org/v1/gonum/mat"
 )
 
-// This file holds the input handling shared by Ridge and GLM: a
+// This file holds the input handling shared by Ridge and GLM (it reuses
+// columnNames and badValue from the OLS files, so the messages match): a
 // column-major copy of the design with its names, the checks on design,
 // outcome and weights, intercept detection, and a column-order
 // Householder QR with rank detection used for the weighted least-squares
@@ -19,11 +20,6 @@ type reason string
 
 func (r reason) Error() string { return string(r) }
 func (r reason) Unwrap() error { return ErrBadValue }
-
-const (
-	reasonNotFinite = reason("not finite")
-	reasonNegative  = reason("negative weight")
-)
 
 // estDesign is a validated, column-major copy of a design.
 type estDesign struct {
@@ -54,16 +50,10 @@ func readDesign(who string, x mat.Matrix, y, weights []float64) (*estDesign, err
 	if weights != nil && len(weights) != n {
 		panic(fmt.Sprintf("fit: %s: len(weights) = %d, design has %d rows", who, len(weights), n))
 	}
-	d := &estDesign{n: n, p: p, cols: make([][]float64, p), names: make([]string, p), y: y}
-	nm, _ := x.(Namer)
+	d := &estDesign{n: n, p: p, cols: make([][]float64, p), names: columnNames(x, p), y: y}
 	back := make([]float64, n*p)
 	for j := range p {
 		d.cols[j] = back[j*n : (j+1)*n : (j+1)*n]
-		if nm != nil {
-			d.names[j] = nm.Name(j)
-		} else {
-			d.names[j] = fmt.Sprintf("x%d", j+1)
-		}
 	}
 	switch m := x.(type) {
 	case columnar:
@@ -88,13 +78,13 @@ func readDesign(who string, x mat.Matrix, y, weights []float64) (*estDesign, err
 	for j, c := range d.cols {
 		for i, v := range c {
 			if math.IsNaN(v) || math.IsInf(v, 0) {
-				return nil, &DataError{Row: i + 1, Column: j + 1, Name: d.names[j], Value: v, Err: reasonNotFinite}
+				return nil, &DataError{Row: i + 1, Column: j + 1, Name: d.names[j], Value: v, Err: badValue(v)}
 			}
 		}
 	}
 	for i, v := range y {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return nil, &DataError{Row: i + 1, Name: "outcome", Value: v, Err: reasonNotFinite}
+			return nil, &DataError{Row: i + 1, Name: "outcome", Value: v, Err: badValue(v)}
 		}
 	}
 	if weights == nil {
@@ -106,9 +96,9 @@ func readDesign(who string, x mat.Matrix, y, weights []float64) (*estDesign, err
 		for i, v := range weights {
 			switch {
 			case math.IsNaN(v) || math.IsInf(v, 0):
-				return nil, &DataError{Row: i + 1, Name: "weights", Value: v, Err: reasonNotFinite}
+				return nil, &DataError{Row: i + 1, Name: "weights", Value: v, Err: badValue(v)}
 			case v < 0:
-				return nil, &DataError{Row: i + 1, Name: "weights", Value: v, Err: reasonNegative}
+				return nil, &DataError{Row: i + 1, Name: "weights", Value: v, Err: fmt.Errorf("negative weight: %w", ErrBadValue)}
 			}
 		}
 		d.w = weights

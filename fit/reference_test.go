@@ -193,12 +193,12 @@ func TestGLMAgainstR(t *testing.T) {
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			p, err := fit.GLM{Family: tt.family}.Fit(tt.x, tt.y, tt.w)
+			m, err := fit.GLM{Family: tt.family}.FitGLM(tt.x, tt.y, tt.w)
 			if err != nil {
 				t.Fatal(err)
 			}
-			m := p.(*fit.GLMFit)
-			stat, pv := m.Wald(nil, nil)
+			stat, pv := m.WaldStats(nil), m.PValues(nil)
+			lo, hi := m.ConfInt(nil, nil, 0.95)
 			for j, c := range m.Coefficients() {
 				if c.Name != tt.x.names[j] {
 					t.Errorf("coefficient %d: got name %q, want %q", j, c.Name, tt.x.names[j])
@@ -211,6 +211,8 @@ func TestGLMAgainstR(t *testing.T) {
 				checkClose(t, c.Name+" stderr", c.StdErr, ref.term(t, tt.name, "se", c.Name), 1e-8)
 				checkClose(t, c.Name+" Wald statistic", stat[j], ref.term(t, tt.name, "stat", c.Name), 1e-8)
 				checkClose(t, c.Name+" p-value", pv[j], ref.term(t, tt.name, "p", c.Name), 1e-8)
+				checkClose(t, c.Name+" lower 95%", lo[j], ref.term(t, tt.name, "ci_lo", c.Name), 1e-8)
+				checkClose(t, c.Name+" upper 95%", hi[j], ref.term(t, tt.name, "ci_hi", c.Name), 1e-8)
 			}
 			s := m.Statistics()
 			for _, q := range []struct {

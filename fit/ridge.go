@@ -8,10 +8,11 @@ import (
 )
 
 var (
-	_ Fitter       = Ridge{}
-	_ Predictor    = (*RidgeFit)(nil)
-	_ Coefficients = (*RidgeFit)(nil)
-	_ Statistics   = (*RidgeFit)(nil)
+	_ Fitter           = Ridge{}
+	_ FrequencyWeigher = Ridge{}
+	_ Predictor        = (*RidgeFit)(nil)
+	_ Coefficients     = (*RidgeFit)(nil)
+	_ Statistics       = (*RidgeFit)(nil)
 )
 
 // Ridge fits a linear model by ridge (Tikhonov) regression with penalty
@@ -39,7 +40,8 @@ var (
 // are reported on the original scale, β_j = b_j / s_j, with the intercept
 // (ȳ − Σ β_j m_j) divided by the intercept column's value. Because the
 // divisor is Σw, integer weights give the same coefficients as repeating
-// rows, so the weights may be read as precision or as frequency weights.
+// rows: the Weights kind changes only Stats.Rows (rows with a positive
+// weight for Precision, Σw for Frequency).
 //
 // Columns other than the intercept that are constant in the rows with a
 // positive weight (s_j ≤ 8ε times their root mean square) are not
@@ -53,14 +55,24 @@ var (
 // weighted residual sum of squares, so the same Lambda shrinks less as
 // Σw grows.
 //
-// Fit panics if Lambda is negative, NaN or infinite, or if the lengths of
-// x, y and weights disagree. It returns a *DataError for NaN or infinite
+// Fit panics if Lambda is negative, NaN or infinite, if Weights is not a
+// defined kind, or if the lengths of x, y and weights disagree. It returns a *DataError for NaN or infinite
 // values and negative weights, and an error wrapping ErrBadValue when all
 // weights are zero.
 type Ridge struct {
 	// Lambda is the penalty on the sum of squared standardised
 	// coefficients; 0 means no penalty.
 	Lambda float64
+	// Weights says what the weights passed to Fit mean; Precision by
+	// default. It changes only Stats.Rows.
+	Weights WeightKind
+}
+
+// FrequencyWeighted returns a copy of r that reads its weights as
+// frequencies.
+func (r Ridge) FrequencyWeighted() Fitter {
+	r.Weights = Frequency
+	return r
 }
 
 // RidgeFit is a fitted ridge regression. It is immutable and safe for
@@ -76,11 +88,24 @@ type RidgeFit struct {
 }
 
 // Fit fits the model to design x, outcome y and case weights (nil means
-// all 1). It returns a *RidgeFit.
+// all 1) and returns a *RidgeFit. See [Ridge.FitRidge].
 func (r Ridge) Fit(x mat.Matrix, y, weights []float64) (Predictor, error) {
+	f, err := r.FitRidge(x, y, weights)
+	if err != nil {
+		return nil, err
+	}
+	return f, nil
+}
+
+// FitRidge is [Ridge.Fit] returning the concrete model. Coefficients are
+// named from x if it implements [Namer], else "x1", "x2", and so on.
+func (r Ridge) FitRidge(x mat.Matrix, y, weights []float64) (*RidgeFit, error) {
 	lam := r.Lambda
 	if lam < 0 || math.IsNaN(lam) || math.IsInf(lam, 0) {
 		panic(fmt.Sprintf("fit: Ridge: invalid Lambda %v", lam))
+	}
+	if r.Weights != Precision && r.Weights != Frequency {
+		panic(fmt.Sprintf("fit: Ridge: invalid weight kind %d", int(r.Weights)))
 	}
 	d, err := readDesign("Ridge", x, y, weights)
 	if err != nil {
@@ -206,8 +231,12 @@ func (r Ridge) Fit(x mat.Matrix, y, weights []float64) (Predictor, error) {
 			tss += w[i] * t * t
 		}
 	}
+	rows := float64(d.used)
+	if r.Weights == Frequency {
+		rows = d.sumW
+	}
 	f.stats = Stats{
-		Rows:         float64(d.used),
+		Rows:         rows,
 		Params:       kept,
 		ResidDF:      math.NaN(),
 		ResidSE:      math.NaN(),
@@ -293,7 +322,7 @@ func (f *RidgeFit) Intercept() int { return f.intercept }
 func (f *RidgeFit) EffectiveDF() float64 { return f.edf }
 
 // Statistics returns the fit statistics. Rows counts rows with a positive
-// weight; Params counts estimable coefficients; Deviance is the weighted
+// weight (Σw for frequency weights); Params counts estimable coefficients; Deviance is the weighted
 // residual sum of squares Σ w (y − ŷ)², NullDeviance the weighted total
 // sum of squares (about ȳ with an intercept, about 0 without) and
 // RSquared is 1 − Deviance/NullDeviance. The other fields are NaN:

@@ -89,6 +89,15 @@ gl <- function(case, fit) {
   co[rownames(s$coefficients), ] <- s$coefficients
   put(case, "coef", tn, b); put(case, "se", tn, co[, 2])
   put(case, "stat", tn, co[, 3]); put(case, "p", tn, co[, 4])
+  # 95% Wald intervals: confint.default (normal quantile) where the
+  # dispersion is fixed, Student t with the residual df where it is estimated
+  if (fit$family$family %in% c("poisson", "binomial")) {
+    ci <- confint.default(fit)
+  } else {
+    q <- qt(0.975, fit$df.residual)
+    ci <- cbind(b - q * co[, 2], b + q * co[, 2])
+  }
+  put(case, "ci_lo", tn, ci[, 1]); put(case, "ci_hi", tn, ci[, 2])
   put(case, "deviance", "", fit$deviance); put(case, "null_deviance", "", fit$null.deviance)
   put(case, "df", "", fit$df.residual); put(case, "df_null", "", fit$df.null)
   put(case, "dispersion", "", s$dispersion)
