@@ -262,13 +262,23 @@ func (s *lsSolver) run() (*lsFit, error) {
 	if s.icpt >= 0 {
 		ybar = s.weightedMean(s.y)
 	}
+	// Residuals in double-double when refined or cheap.
+	exactResid := refine || n*p <= 1<<16
 	for i := range n {
 		row := s.x[i*p : i*p+p]
-		acc := ddAcc{hi: s.y[i]}
-		for _, j := range cols {
-			acc.addProd(-row[j], beta[j])
+		if exactResid {
+			acc := ddAcc{hi: s.y[i]}
+			for _, j := range cols {
+				acc.addProd(-row[j], beta[j])
+			}
+			res.resid[i] = acc.hi + acc.lo
+			continue
 		}
-		res.resid[i] = acc.hi + acc.lo
+		e := s.y[i]
+		for _, j := range cols {
+			e = math.FMA(-row[j], beta[j], e)
+		}
+		res.resid[i] = e
 	}
 	for k, i := range s.used {
 		e := res.resid[i]
@@ -333,16 +343,15 @@ func (s *lsSolver) columnStats() {
 			break
 		}
 	}
-	// Weighted means (two-pass with a correction sweep) when there is an
-	// intercept.
+	// Weighted means and centred norms in two passes: the first sums, the
+	// second accumulates deviations from the provisional mean and corrects
+	// both the mean and the sum of squares (the corrected two-pass
+	// algorithm of Chan, Golub & LeVeque 1983).
 	var sumw float64
-	for k := range s.used {
-		sumw += s.wt(k)
-	}
-	raw := make([]float64, p)
 	if s.icpt >= 0 {
 		for k, i := range s.used {
 			wi := s.wt(k)
+			sumw += wi
 			row := s.x[i*p : i*p+p]
 			for j, v := range row {
 				s.mean[j] += wi * v
@@ -350,34 +359,32 @@ func (s *lsSolver) columnStats() {
 		}
 		for j := range p {
 			s.mean[j] /= sumw
-		}
-		corr := make([]float64, p)
-		for k, i := range s.used {
-			wi := s.wt(k)
-			row := s.x[i*p : i*p+p]
-			for j, v := range row {
-				corr[j] += wi * (v - s.mean[j])
-			}
-		}
-		for j := range p {
-			s.mean[j] += corr[j] / sumw
 			if constant[j] {
 				s.mean[j] = first[j]
 			}
 		}
 		s.mean[s.icpt] = 0
 	}
+	raw := make([]float64, p)
+	corr := make([]float64, p)
 	for k, i := range s.used {
 		wi := s.wt(k)
 		row := s.x[i*p : i*p+p]
 		for j, v := range row {
 			d := v - s.mean[j]
-			s.scale[j] += wi * d * d
+			wd := wi * d
+			corr[j] += wd
+			s.scale[j] += wd * d
 			raw[j] += wi * v * v
 		}
 	}
 	for j := range p {
-		s.scale[j] = math.Sqrt(s.scale[j])
+		if s.icpt >= 0 && j != s.icpt && !constant[j] {
+			c := corr[j] / sumw
+			s.mean[j] += c
+			s.scale[j] -= c * corr[j]
+		}
+		s.scale[j] = math.Sqrt(max(s.scale[j], 0))
 		raw[j] = math.Sqrt(raw[j])
 		switch {
 		case s.icpt >= 0 && j != s.icpt && constant[j]:
