@@ -43,8 +43,10 @@ var (
 //
 // # Algorithm
 //
-// Starting means are y + 0.1 (Poisson), (w·y + ½)/(w + 1) (Binomial) and
-// y (Gamma). Each iteration solves a weighted least-squares problem for
+// Starting means are y + 0.1 (Poisson), (w·y + ½)/(w + 1) (Binomial;
+// (y + ½)/2 with Frequency weights, the start each repeated row would get,
+// so that the iterations follow the path of the expanded data) and y
+// (Gamma). Each iteration solves a weighted least-squares problem for
 // the working response by a Householder QR that keeps columns in design
 // order and drops a column whose part not explained by the earlier kept
 // columns is at most 1e-7 of its norm (such a column is reported as not
@@ -65,7 +67,8 @@ var (
 // Fit returns a *DataError naming the row for an outcome outside the
 // family's range (Binomial: outside [0, 1]; Poisson: below 0; Gamma: ≤ 0)
 // and for NaN or infinite values; ErrTooFewRows when fewer rows have a
-// positive weight than there are estimable coefficients; a
+// positive weight than there are columns that are not constant in those
+// rows (counting the intercept); a
 // *ConvergenceError after MaxIter iterations without convergence; and an
 // error wrapping ErrSeparation for a binomial fit whose coefficients run
 // off to infinity (see [ErrSeparation] and the rule below).
@@ -164,8 +167,16 @@ func (g GLM) FitGLM(x mat.Matrix, y, weights []float64) (*GLMFit, error) {
 	s := &irls{fam: fam, d: d}
 	s.alloc()
 	mu, eta := s.mu, s.eta
+	if cand := d.candidates(); d.used < cand {
+		return nil, fmt.Errorf("fit: GLM: %d rows with positive weight, %d columns to estimate: %w", d.used, cand, ErrTooFewRows)
+	}
+	freq := g.Weights == Frequency
 	for i := range n {
-		mu[i] = fam.start(y[i], w[i])
+		if freq {
+			mu[i] = fam.start(y[i], 1)
+		} else {
+			mu[i] = fam.start(y[i], w[i])
+		}
 		eta[i] = fam.link(mu[i])
 		mu[i], _ = fam.inverse(eta[i])
 	}
@@ -221,7 +232,7 @@ func (g GLM) FitGLM(x mat.Matrix, y, weights []float64) (*GLMFit, error) {
 	if !conv {
 		return nil, &ConvergenceError{Iter: iter, Change: change}
 	}
-	return s.result(beta, devOld, iter, g.Weights == Frequency), nil
+	return s.result(beta, devOld, iter, freq), nil
 }
 
 // irls holds the state of one IRLS run.

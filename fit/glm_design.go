@@ -139,6 +139,33 @@ func (d *estDesign) intercept() int {
 	return -1
 }
 
+// candidates returns the number of columns that could be estimated: the
+// intercept, if any, and the columns that are not constant over the rows
+// with a positive weight.
+func (d *estDesign) candidates() int {
+	icpt := d.intercept()
+	k := 0
+	for j, c := range d.cols {
+		if j == icpt {
+			k++
+			continue
+		}
+		first, seen := 0.0, false
+		for i, v := range c {
+			if d.w[i] <= 0 {
+				continue
+			}
+			if !seen {
+				first, seen = v, true
+			} else if v != first {
+				k++
+				break
+			}
+		}
+	}
+	return k
+}
+
 // orderedQR is a Householder QR of an n × p matrix (column-major) that
 // takes the columns in their given order and skips a column whose part
 // orthogonal to the columns kept before it has a norm of at most tol
