@@ -33,7 +33,7 @@ var gbPublished = []string{
 	"2022-04-15 Good Friday", "2022-04-18 Easter Monday", "2022-05-02 Early May",
 	"2022-06-02 Spring Bank Holiday", "2022-06-03 Platinum Jubilee Bank Holiday",
 	"2022-08-29 Summer Bank Holiday",
-	"2022-09-19 State Funeral of Queen Elizabeth II", // "Bank Holiday for the State Funeral of Queen Elizabeth II"
+	"2022-09-19 State Funeral of Queen Elizabeth II",    // "Bank Holiday for the State Funeral of Queen Elizabeth II"
 	"2022-12-26 Boxing Day", "2022-12-27 Christmas Day", // "Christmas Day (substitute day)"
 	"2023-01-02 New Year's Day", // "(substitute day)"
 	"2023-04-07 Good Friday", "2023-04-10 Easter Monday", "2023-05-01 Early May",
