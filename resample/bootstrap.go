@@ -62,10 +62,25 @@ func (p bootPlan) Len() int { return p.b }
 func (p bootPlan) Split(r int, dst *Split) *Split {
 	checkReplicate(r, p.b)
 	dst = countsDst(dst, r, p.n)
+	// The loop below is rng.Halves.IntN(n) unrolled over the two halves of
+	// each Uint64, with the rejection threshold 2³² mod n hoisted.
 	g := rng.Replicate(p.seed, r)
 	c := dst.Counts
-	for range p.n {
-		c[g.IntN(p.n)]++
+	n := uint64(p.n)
+	thresh := uint32(-uint32(n) % uint32(n))
+	for left := p.n; left > 0; {
+		u := g.Uint64()
+		if m := (u & 0xffffffff) * n; uint32(m) >= thresh {
+			c[m>>32]++
+			left--
+			if left == 0 {
+				break
+			}
+		}
+		if m := (u >> 32) * n; uint32(m) >= thresh {
+			c[m>>32]++
+			left--
+		}
 	}
 	dst.Out = zeros(dst.Out, c)
 	return dst
@@ -81,7 +96,7 @@ func (p stratPlan) Classes() []Class { return p.classes }
 func (p stratPlan) Split(r int, dst *Split) *Split {
 	checkReplicate(r, p.b)
 	dst = countsDst(dst, r, p.n)
-	g := rng.Replicate(p.seed, r)
+	g := rng.NewHalves(rng.Replicate(p.seed, r))
 	c := dst.Counts
 	for _, cl := range p.classes {
 		m := len(cl.Rows)
@@ -182,7 +197,7 @@ type groupPlan struct{ stratPlan }
 func (p groupPlan) Split(r int, dst *Split) *Split {
 	checkReplicate(r, p.b)
 	dst = countsDst(dst, r, p.n)
-	g := rng.Replicate(p.seed, r)
+	g := rng.NewHalves(rng.Replicate(p.seed, r))
 	m := len(p.classes)
 	for range m {
 		for _, i := range p.classes[g.IntN(m)].Rows {

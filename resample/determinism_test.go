@@ -128,3 +128,21 @@ func TestReuseAcrossSchemes(t *testing.T) {
 		t.Errorf("Bayesian into a bootstrap dst (-want +got):\n%s", d)
 	}
 }
+
+// TestOneStratumIsOrdinary checks that a stratified bootstrap with a
+// single stratum draws exactly the ordinary bootstrap's replicates: both
+// follow the same documented draw rule (two 32-bit words per Uint64,
+// Lemire's method), one through rng.Halves and one through its unrolled
+// hot loop.
+func TestOneStratumIsOrdinary(t *testing.T) {
+	for _, n := range []int{1, 2, 3, 17, 1000} {
+		same := make([]string, n)
+		plain := mustPlan(t, resample.Bootstrap{B: 20}, n, 6)
+		strat := mustPlan(t, resample.Bootstrap{B: 20, Strata: resample.ByLabel(same)}, n, 6)
+		for r := range 20 {
+			if d := cmpDiff(clone(plain.Split(r, nil)), clone(strat.Split(r, nil))); d != "" {
+				t.Fatalf("n=%d replicate %d (-ordinary +one stratum):\n%s", n, r, d)
+			}
+		}
+	}
+}

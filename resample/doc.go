@@ -14,13 +14,16 @@
 //
 //   - Replicate r draws only from rng.Replicate(seed, r), a math/rand/v2
 //     PCG seeded with (Mix(seed), Mix(seed ^ Mix(r+1))), Mix being the
-//     SplitMix64 finaliser. [Bootstrap] makes n draws IntN(n) (stratified:
-//     for each stratum in [Partition] order, n_h draws IntN(n_h) among its
-//     rows); [Grouped] makes G draws IntN(G); [Bayesian] makes n draws
-//     ExpFloat64; the block bootstraps draw, per block, IntN(starts) and
-//     then, for [Stationary], the length 1 + ⌊log(1−Float64())/log(1−1/Mean)⌋.
+//     SplitMix64 finaliser. [Bootstrap] makes n index draws in [0, n)
+//     (stratified: for each stratum in [Partition] order, n_h draws in
+//     [0, n_h) picking among its rows) and [Grouped] makes G draws in
+//     [0, G), each Uint64 of the generator giving two 32-bit words, low
+//     half first, mapped to an index by Lemire's multiply-and-reject
+//     method (exactly uniform); [Bayesian] makes n draws ExpFloat64; the
+//     block bootstraps draw, per block, IntN(starts) and then, for
+//     [Stationary], the length 1 + ⌊log(1−Float64())/log(1−1/Mean)⌋.
 //   - Draws shared by all replicates come from rng.Stream(seed, purpose):
-//     the six Feistel round keys of [Balanced] (six Uint64 calls), and the
+//     the four Feistel round keys of [Balanced] (four Uint64 calls), and the
 //     shuffle of repeat q of [KFold] (Shuffle on each stratum in turn, with
 //     purpose 0x6b666f6c64000000 + q).
 //   - [Poisson] counts are rng.Poisson1(rng.Keyed(seed, r, key)), key being

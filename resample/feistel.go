@@ -9,7 +9,7 @@ import (
 
 // feistelRounds is the number of Feistel rounds; part of the determinism
 // promise of [Balanced].
-const feistelRounds = 6
+const feistelRounds = 4
 
 // feistel is a keyed pseudo-random bijection of [0, size): a balanced
 // Feistel network on 2h-bit words (2^(2h) ≥ size, h ≥ 1) whose round
