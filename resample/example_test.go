@@ -3,6 +3,7 @@ package resample_test
 import (
 	"fmt"
 	"math"
+	"math/rand/v2"
 
 	"github.com/kalends/kalends/resample"
 )
@@ -185,4 +186,94 @@ func ExampleGrouped() {
 	fmt.Println(s.Counts[0] == s.Counts[1] && s.Counts[1] == s.Counts[2], s.Counts[3] == s.Counts[4])
 	// Output:
 	// true true
+}
+
+// The ordinary bootstrap: counts per row and the out-of-bag rows, made
+// lazily one replicate at a time.
+func ExampleBootstrap() {
+	p, _ := resample.Bootstrap{B: 2000}.Plan(200, 1)
+	var oob float64
+	for _, s := range resample.All(p) {
+		oob += float64(len(s.Out)) / 200
+	}
+	fmt.Printf("mean out-of-bag share %.2f (expected %.2f)\n", oob/2000, math.Pow(1-1.0/200, 200))
+	// Output:
+	// mean out-of-bag share 0.37 (expected 0.37)
+}
+
+// All loops over a plan's replicates with one reused Split; stopping
+// early is allowed.
+func ExampleAll() {
+	p, _ := resample.Bootstrap{B: 100}.Plan(5, 3)
+	for r, s := range resample.All(p) {
+		var sum int32
+		for _, c := range s.Counts {
+			sum += c
+		}
+		fmt.Println("replicate", r, "draws", sum)
+		if r == 1 {
+			break
+		}
+	}
+	// Output:
+	// replicate 0 draws 5
+	// replicate 1 draws 5
+}
+
+// ByLabel strata come in sorted label order, whatever the row order.
+func ExampleByLabel() {
+	classes, _ := resample.ByLabel([]string{"tue", "mon", "tue", "wed"}).Classes(4)
+	for _, c := range classes {
+		fmt.Println(c.Label, c.Rows)
+	}
+	// Output:
+	// mon [1]
+	// tue [0 2]
+	// wed [3]
+}
+
+// BlockLength is 1 for a series without dependence and grows with it.
+func ExampleBlockLength() {
+	// Invented: white noise, and an AR(1) series with coefficient 0.7
+	// driven by the same noise.
+	g := rand.New(rand.NewPCG(1, 2))
+	noise := make([]float64, 300)
+	ar := make([]float64, 300)
+	for t := range noise {
+		noise[t] = g.NormFloat64()
+		ar[t] = noise[t]
+		if t > 0 {
+			ar[t] += 0.7 * ar[t-1]
+		}
+	}
+	for _, x := range [][]float64{noise, ar} {
+		sb, cb, err := resample.BlockLength(x)
+		if err != nil {
+			fmt.Println(err)
+			continue
+		}
+		fmt.Printf("stationary %.1f circular %.1f\n", sb, cb)
+	}
+	_, _, err := resample.BlockLength([]float64{1, 2, 3})
+	fmt.Println(err)
+	// Output:
+	// stationary 1.0 circular 1.0
+	// stationary 10.5 circular 12.0
+	// resample: BlockLength: 3 values, need at least 10
+}
+
+// A circular block bootstrap gives every row the same chance of being
+// drawn, end rows included.
+func ExampleCircularBlock() {
+	p, _ := resample.CircularBlock{B: 3000, Length: 4}.Plan(10, 8)
+	total := make([]int32, 10)
+	for _, s := range resample.All(p) {
+		for i, c := range s.Counts {
+			total[i] += c
+		}
+	}
+	fmt.Printf("row 0 %.2f, row 5 %.2f, row 9 %.2f draws per replicate\n",
+		float64(total[0])/3000, float64(total[5])/3000, float64(total[9])/3000)
+	// Output:
+	// row 0 1.00, row 5 1.04, row 9 0.98 draws per replicate
 }
