@@ -178,7 +178,7 @@ func (g GLM) FitGLM(x mat.Matrix, y, weights []float64) (*GLMFit, error) {
 			mu[i] = fam.start(y[i], w[i])
 		}
 		eta[i] = fam.link(mu[i])
-		mu[i], _ = fam.inverse(eta[i])
+		mu[i], s.dmu[i] = fam.inverse(eta[i])
 	}
 	devOld := s.deviance(mu)
 	var (
@@ -240,6 +240,7 @@ type irls struct {
 	fam     Family
 	d       *estDesign
 	mu, eta []float64
+	dmu     []float64 // dμ/dη at eta
 	z       []float64 // working response, scaled
 	sw      []float64 // square roots of the working weights
 	wcols   [][]float64
@@ -250,6 +251,7 @@ func (s *irls) alloc() {
 	n, p := s.d.n, s.d.p
 	s.mu = make([]float64, n)
 	s.eta = make([]float64, n)
+	s.dmu = make([]float64, n)
 	s.z = make([]float64, n)
 	s.sw = make([]float64, n)
 	s.wcols = make([][]float64, p)
@@ -265,7 +267,7 @@ func (s *irls) step(beta []float64, qr *orderedQR) error {
 	fam, d := s.fam, s.d
 	y, w := d.y, d.w
 	for i := range d.n {
-		_, dmu := fam.inverse(s.eta[i])
+		dmu := s.dmu[i]
 		if w[i] <= 0 || dmu == 0 {
 			s.sw[i], s.z[i] = 0, 0
 			continue
@@ -308,7 +310,7 @@ func (s *irls) predict(beta []float64) {
 		}
 	}
 	for i, e := range s.eta {
-		s.mu[i], _ = s.fam.inverse(e)
+		s.mu[i], s.dmu[i] = s.fam.inverse(e)
 	}
 }
 

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"gonum.org/v1/gonum/floats"
 	"gonum.org/v1/gonum/mat"
 )
 
@@ -238,33 +239,30 @@ func applyReflector(vs []float64, tau float64, x []float64) {
 	if tau == 0 {
 		return
 	}
-	s := x[0]
-	for i := 1; i < len(x); i++ {
-		s += vs[i] * x[i]
-	}
-	s *= tau
+	s := tau * (x[0] + floats.Dot(vs[1:], x[1:]))
 	x[0] -= s
-	for i := 1; i < len(x); i++ {
-		x[i] -= s * vs[i]
-	}
+	floats.AddScaled(x[1:], -s, vs[1:])
 }
 
+// norm2 returns the Euclidean norm of x, rescaling only when the plain
+// sum of squares underflows or overflows.
 func norm2(x []float64) float64 {
-	// scaled to avoid overflow, as LAPACK's Dnrm2 does
-	scale, ssq := 0.0, 1.0
-	for _, v := range x {
-		if v == 0 {
-			continue
-		}
-		a := math.Abs(v)
-		if scale < a {
-			ssq = 1 + ssq*(scale/a)*(scale/a)
-			scale = a
-		} else {
-			ssq += (a / scale) * (a / scale)
-		}
+	ss := floats.Dot(x, x)
+	if ss > 0x1p-900 && ss < 0x1p900 {
+		return math.Sqrt(ss)
 	}
-	return scale * math.Sqrt(ssq)
+	if ss == 0 {
+		return 0
+	}
+	scale := 0.0
+	for _, v := range x {
+		scale = math.Max(scale, math.Abs(v))
+	}
+	ss = 0
+	for _, v := range x {
+		ss += (v / scale) * (v / scale)
+	}
+	return scale * math.Sqrt(ss)
 }
 
 // solve returns the least-squares coefficients for right-hand side b
