@@ -255,30 +255,25 @@ func (s *lsSolver) run() (*lsFit, error) {
 	// Unscaled covariance (XᵀWX)⁻¹.
 	res.unscaled = s.unscaledCov(refine)
 
-	// Residuals of every row, sums of squares.
+	// Residuals: in double-double when refined, or when the plain ones
+	// turn out small next to the outcome (cancellation, R² near 1).
 	res.resid = make([]float64, n)
+	s.residuals(res.resid, beta, refine)
+	if !refine {
+		var ss, yy float64
+		for k, i := range s.used {
+			e, wi := res.resid[i], s.wt(k)
+			ss += wi * e * e
+			yy += wi * s.y[i] * s.y[i]
+		}
+		if ss < 1e-4*yy {
+			s.residuals(res.resid, beta, true)
+		}
+	}
 	var rss, tss ddAcc
 	var ybar float64
 	if s.icpt >= 0 {
 		ybar = s.weightedMean(s.y)
-	}
-	// Residuals in double-double when refined or cheap.
-	exactResid := refine || n*p <= 1<<16
-	for i := range n {
-		row := s.x[i*p : i*p+p]
-		if exactResid {
-			acc := ddAcc{hi: s.y[i]}
-			for _, j := range cols {
-				acc.addProd(-row[j], beta[j])
-			}
-			res.resid[i] = acc.hi + acc.lo
-			continue
-		}
-		e := s.y[i]
-		for _, j := range cols {
-			e = math.FMA(-row[j], beta[j], e)
-		}
-		res.resid[i] = e
 	}
 	for k, i := range s.used {
 		e := res.resid[i]
@@ -313,6 +308,28 @@ func (s *lsSolver) run() (*lsFit, error) {
 }
 
 const epsilon = 0x1p-52
+
+// residuals writes y − Xβ for every row into dst, accumulated in
+// double-double arithmetic when exact, with fused multiply-adds otherwise.
+func (s *lsSolver) residuals(dst, beta []float64, exact bool) {
+	p := s.p
+	for i := range s.n {
+		row := s.x[i*p : i*p+p]
+		if exact {
+			acc := ddAcc{hi: s.y[i]}
+			for _, j := range s.cols {
+				acc.addProd(-row[j], beta[j])
+			}
+			dst[i] = acc.hi + acc.lo
+			continue
+		}
+		e := s.y[i]
+		for _, j := range s.cols {
+			e = math.FMA(-row[j], beta[j], e)
+		}
+		dst[i] = e
+	}
+}
 
 // columnStats finds the intercept, the column means to remove and the
 // column norms after weighting and centring.
@@ -649,16 +666,36 @@ func (s *lsSolver) corr(f, gq, h, dg []float64, needR bool) {
 	_ = nu
 }
 
-// applyQ overwrites v (length len(used)) with Q v or Qᵀ v.
+// applyQ overwrites v (length len(used)) with Q v or Qᵀ v, applying the
+// Householder reflectors H_k = I − τ_k u_k u_kᵀ stored below the diagonal
+// of s.a (LAPACK layout, u_k[k] = 1).
 func (s *lsSolver) applyQ(trans blas.Transpose, v []float64) {
 	nu, q := len(s.used), len(s.cols)
-	a := blas64.General{Rows: nu, Cols: q, Stride: q, Data: s.a}
-	cm := blas64.General{Rows: nu, Cols: 1, Stride: 1, Data: v}
-	lw := max(1, 1)
-	if cap(s.work) < lw {
-		s.work = make([]float64, lw)
+	a := s.a
+	apply := func(k int) {
+		tau := s.tau[k]
+		if tau == 0 {
+			return
+		}
+		d := v[k]
+		for i := k + 1; i < nu; i++ {
+			d += a[i*q+k] * v[i]
+		}
+		d *= tau
+		v[k] -= d
+		for i := k + 1; i < nu; i++ {
+			v[i] -= d * a[i*q+k]
+		}
 	}
-	lapack64.Ormqr(blas.Left, trans, a, s.tau[:q], cm, s.work[:max(lw, 1)], max(lw, 1))
+	if trans == blas.Trans {
+		for k := range q {
+			apply(k)
+		}
+		return
+	}
+	for k := q - 1; k >= 0; k-- {
+		apply(k)
+	}
 }
 
 // augResidual computes, in double-double arithmetic, f = √W(yb − X b) − r
