@@ -253,12 +253,12 @@ func TestBalancedTotals(t *testing.T) {
 	}
 }
 
-// TestBalancedCountsBinomial checks that, apart from the balance, a
-// balanced replicate's counts look like an ordinary bootstrap's: row 0's
-// counts are close to Binomial(n, 1/n) (exactly, they are hypergeometric
-// with n·B draws of which B are row 0 — Davison, Hinkley & Schechtman
-// 1986 — which for B = 4000 is within the test's power of the binomial).
-func TestBalancedCountsBinomial(t *testing.T) {
+// TestBalancedCountsHypergeometric checks that the balancing permutation
+// behaves as a random one: a replicate takes n of the n·B draws, B of
+// which are row 0, so under a uniform permutation row 0's count is
+// hypergeometric (the concatenate-and-permute construction of Davison,
+// Hinkley & Schechtman 1986, §2); Pearson's chi-square test at level alpha.
+func TestBalancedCountsHypergeometric(t *testing.T) {
 	const n, b = 20, 4000
 	p := mustPlan(t, resample.Balanced{B: b}, n, 7)
 	hyper := func(k int) float64 { // P(count = k): n draws from nB with B successes
