@@ -1,0 +1,678 @@
+package fit
+
+import (
+	"fmt"
+	"math"
+	"runtime"
+	"runtime/debug"
+	"sync"
+	"sync/atomic"
+
+	"github.com/kalends/kalends/internal/blockxp"
+	"gonum.org/v1/gonum/mat"
+)
+
+// CountsFunc writes the multiplicity of every row in replicate r
+// (0 ≤ r < B) into dst, which has one entry per row. It must be a pure
+// function of r (it may be called more than once for the same replicate)
+// and safe to call from several goroutines at once, as resample.Plan.Split
+// is. Counts must not be negative.
+type CountsFunc func(r int, dst []int32)
+
+// Batch fits one least-squares model per bootstrap replicate of a data set
+// without refitting each resampled design. A replicate differs from the data
+// only in its row multiplicities, so its cross-products XᵀWX, XᵀWy, yᵀWy are
+// count-weighted sums of the same per-row cross-products; Batch forms them
+// for a block of replicates at once with one dense product
+// Counts (replicates × rows) · Z (rows × q) per block of rows, where a row
+// of Z holds the row's standardised cross-products (q = p(p+1)/2 + p + 2),
+// and then solves each replicate's p × p system.
+//
+// # When the fast path applies
+//
+// Replicate r of a Batch fit equals OLS{Weights: Precision, Tol: Tol} fitted
+// to the data with row i repeated counts[r][i] times, with classical
+// standard errors; with weights == nil that is OLS{Weights: Frequency}
+// with the counts as weights. A resampling run can use Batch instead of
+// refitting when all of these hold:
+//
+//   - the estimator is OLS (precision or no weights, CovKind Classical);
+//   - every replicate is given by integer row counts (ordinary, stratified,
+//     balanced, block, grouped or Poisson bootstrap; not Bayesian-bootstrap
+//     weights, not validation splits that hold rows out of both sides);
+//   - what the callbacks need is coefficients, their classical standard
+//     errors, the residual standard error, the rows used, and out-of-bag
+//     RMSE and MAE over the rows with count zero (set OutOfBag); callbacks
+//     that need the fitted model itself (its residuals, its Predict on other
+//     data, sandwich covariances) need the generic path.
+//
+// # Exactness
+//
+// Columns are standardised first (see [Standardization]) and each
+// replicate's equilibrated cross-product matrix is factorised by Cholesky.
+// A replicate whose matrix has a column with no weight, breaks down, or has
+// an estimated 1-norm condition number above CondLimit, and a replicate
+// with a count above 255, is refitted by the QR path (OLS on that
+// replicate), so it gets exactly the QR path's coefficients and
+// not-estimable status; Fallback reports which. Columns that are not
+// estimable on the whole data are not estimable in any replicate and are
+// left out of the fast path. Replicates solved by Cholesky agree with the
+// QR path to about CondLimit·2⁻⁵² relative.
+//
+// # Memory and work
+//
+// Batch never materialises a resampled design and never holds the
+// rows × q cross-product table: it keeps the counts of one block of
+// replicates (one byte per row and replicate, about half the size of the
+// design in all; at least 4 MiB) and one block of 256 rows of Z per worker.
+// The work is about 2·B·n·q floating-point operations, done by an
+// AVX2/FMA assembly kernel on amd64 (plain Go elsewhere).
+//
+// # Determinism and concurrency
+//
+// Results are identical for any number of workers: every sum is formed in
+// a fixed order that does not depend on how replicates are shared out. The
+// kernel fuses multiply and add on amd64 with AVX2, so results may differ in
+// the last bits between machines with and without it. A Batch value is safe
+// for concurrent use.
+type Batch struct {
+	// Tol is the rank tolerance passed to the QR path (see [OLS]); 0 means
+	// the default.
+	Tol float64
+	// CondLimit is the largest estimated condition number (1-norm, of the
+	// equilibrated standardised cross-product matrix) that a replicate may
+	// have and still be solved by Cholesky; 0 means 1e5, for about 10
+	// correct digits or more.
+	CondLimit float64
+	// OutOfBag asks for out-of-bag RMSE and MAE, at the cost of a second
+	// pass over the data (about p/q of the first).
+	OutOfBag bool
+	// Workers is the number of goroutines; 0 means runtime.GOMAXPROCS(0)
+	// and 1 runs on the calling goroutine.
+	Workers int
+}
+
+// BatchFit holds the per-replicate results of a [Batch] fit, indexed by
+// replicate. Matrices are B × P, row-major: replicate r's coefficients are
+// Coef[r*P : (r+1)*P].
+type BatchFit struct {
+	// B is the number of replicates and P the number of design columns.
+	B, P int
+	// Names are the coefficient names, as OLS gives them.
+	Names []string
+	// Coef, StdErr and Estimable hold the coefficients, their classical
+	// standard errors, and whether each was estimable; coefficients that
+	// are not estimable have NaN estimates and standard errors.
+	Coef, StdErr []float64
+	Estimable    []bool
+	// ResidSE is the residual standard error, Rows the rows used (the
+	// count-weighted number of rows with a positive weight) and Rank the
+	// number of estimable coefficients of each replicate.
+	ResidSE, Rows []float64
+	Rank          []int
+	// Fallback reports which replicates were fitted by the QR path.
+	Fallback []bool
+	// OutOfBagRows is the number of rows with count zero; OutOfBagRMSE and
+	// OutOfBagMAE are the root mean squared and mean absolute prediction
+	// errors on those rows (unweighted, in outcome units, predictions
+	// reading not-estimable coefficients as zero). They are nil unless
+	// OutOfBag was set; the errors are NaN for a replicate without
+	// out-of-bag rows.
+	OutOfBagRows              []int
+	OutOfBagRMSE, OutOfBagMAE []float64
+	// Err holds the error of each replicate that could not be fitted (for
+	// example one wrapping ErrTooFewRows), else nil; its row is then NaN.
+	Err []error
+}
+
+// Replicate returns replicate r's coefficients (a view into Coef).
+func (f *BatchFit) Replicate(r int) []float64 { return f.Coef[r*f.P : (r+1)*f.P] }
+
+// batchRows is the number of rows of Z in one block.
+const batchRows = 256
+
+// Fit fits the B replicates given by counts to the design x, outcome y and
+// optional precision weights (nil means all ones).
+//
+// Fit returns a *[DataError] for a NaN or infinite value in x or y or a
+// NaN, infinite or negative weight, and an error wrapping [ErrBadValue] if
+// every weight is zero; a replicate that cannot be fitted gets its error in
+// BatchFit.Err and the others are still fitted. Fit panics if len(y)
+// differs from the rows of x, weights is not nil and has another length, x
+// has no columns, B < 0, counts is nil, or counts writes a negative count.
+func (bt Batch) Fit(x mat.Matrix, y, weights []float64, B int, counts CountsFunc) (*BatchFit, error) {
+	n, p := x.Dims()
+	switch {
+	case len(y) != n:
+		panic(fmt.Sprintf("fit: Batch: outcome has %d values, design has %d rows", len(y), n))
+	case weights != nil && len(weights) != n:
+		panic(fmt.Sprintf("fit: Batch: weights have %d values, design has %d rows", len(weights), n))
+	case p == 0:
+		panic("fit: Batch: design has no columns")
+	case B < 0:
+		panic(fmt.Sprintf("fit: Batch: negative number of replicates %d", B))
+	case counts == nil:
+		panic("fit: Batch: nil CountsFunc")
+	}
+	src := newRowSource(x)
+	if err := validateRows(src, y, weights); err != nil {
+		return nil, err
+	}
+	std, err := learnStd(src, y, weights)
+	if err != nil {
+		return nil, err
+	}
+	condLimit := bt.CondLimit
+	if condLimit == 0 {
+		condLimit = 1e5
+	}
+	workers := bt.Workers
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	res := &BatchFit{
+		B: B, P: p, Names: batchNames(x, p),
+		Coef: make([]float64, B*p), StdErr: make([]float64, B*p), Estimable: make([]bool, B*p),
+		ResidSE: make([]float64, B), Rows: make([]float64, B), Rank: make([]int, B),
+		Fallback: make([]bool, B), Err: make([]error, B),
+	}
+	if bt.OutOfBag {
+		res.OutOfBagRows = make([]int, B)
+		res.OutOfBagRMSE = make([]float64, B)
+		res.OutOfBagMAE = make([]float64, B)
+	}
+	e := &batchEngine{bt: bt, x: x, src: src, y: y, w: weights, B: B, counts: counts, condLimit: condLimit, workers: workers, res: res}
+	e.kept, e.fast = e.fullDataColumns(std)
+	e.m = newStdMap(std, e.kept)
+	e.l = newLayout(len(e.kept))
+	if !e.fast {
+		e.run(B, func(r int) {
+			c := make([]int32, n)
+			e.fetch(r, c)
+			e.fallback(r, c)
+			if bt.OutOfBag {
+				e.outOfBagDirect(r, c)
+			}
+		})
+		return res, nil
+	}
+	e.runBlocks()
+	return res, nil
+}
+
+func batchNames(x mat.Matrix, p int) []string {
+	names := make([]string, p)
+	nm, ok := x.(Namer)
+	for j := range names {
+		if ok {
+			names[j] = nm.Name(j)
+		} else {
+			names[j] = fmt.Sprintf("x%d", j+1)
+		}
+	}
+	return names
+}
+
+type batchEngine struct {
+	bt        Batch
+	x         mat.Matrix
+	src       rowSource
+	y, w      []float64
+	B         int
+	counts    CountsFunc
+	condLimit float64
+	workers   int
+	res       *BatchFit
+	kept      []int
+	fast      bool
+	m         stdMap
+	l         xpLayout
+}
+
+// fullDataColumns decides which columns the fast path keeps and whether it
+// can run at all: all columns when the whole data's cross-product matrix
+// passes the conditioning check, else the columns OLS finds estimable on
+// the whole data, provided the intercept is among them and the reduced
+// matrix passes.
+func (e *batchEngine) fullDataColumns(std Standardization) ([]int, bool) {
+	p := e.src.p
+	all := make([]int, p)
+	for j := range all {
+		all[j] = j
+	}
+	if e.fullDataSolves(std, all) {
+		return all, true
+	}
+	lm, err := OLS{Tol: e.bt.Tol}.FitLinear(e.x, e.y, e.w)
+	if err != nil {
+		return all, false
+	}
+	var kept []int
+	for j, c := range lm.Coefficients() {
+		if c.Estimable {
+			kept = append(kept, j)
+		}
+	}
+	if len(kept) == 0 || (std.Intercept >= 0 && !lm.Coefficients()[std.Intercept].Estimable) {
+		return all, false
+	}
+	return kept, e.fullDataSolves(std, kept)
+}
+
+func (e *batchEngine) fullDataSolves(std Standardization, kept []int) bool {
+	m := newStdMap(std, kept)
+	l := newLayout(len(kept))
+	sums := make([]float64, l.q)
+	z := make([]float64, l.q)
+	row := make([]float64, e.src.p)
+	u := make([]float64, len(kept))
+	for i := range e.src.n {
+		e.src.row(i, row)
+		v := m.standardise(u, row, e.y[i])
+		l.fill(z, u, v, e.weight(i))
+		for t, zt := range z {
+			sums[t] += zt
+		}
+	}
+	out := newRepFit(e.src.p)
+	return m.solve(l, sums, e.condLimit, newSolveWork(len(kept)), &out)
+}
+
+func newRepFit(p int) repFit {
+	return repFit{coef: make([]float64, p), se: make([]float64, p), estimable: make([]bool, p)}
+}
+
+func (e *batchEngine) weight(i int) float64 {
+	if e.w == nil {
+		return 1
+	}
+	return e.w[i]
+}
+
+// run calls f(r) for r in [0, n) on the workers, handing out indices in
+// order; a panic in f is re-raised on the calling goroutine.
+func (e *batchEngine) run(n int, f func(r int)) {
+	parallel(e.workers, n, func(_ int, next func() (int, bool)) {
+		for r, ok := next(); ok; r, ok = next() {
+			f(r)
+		}
+	})
+}
+
+// parallel runs body on up to workers goroutines (the caller's when
+// workers is 1), each drawing indices in [0, n) from next. A panic in any
+// of them is re-raised on the caller's goroutine with its stack.
+func parallel(workers, n int, body func(worker int, next func() (int, bool))) {
+	var ctr atomic.Int64
+	next := func() (int, bool) {
+		i := int(ctr.Add(1) - 1)
+		return i, i < n
+	}
+	workers = min(workers, n)
+	if workers <= 1 {
+		body(0, next)
+		return
+	}
+	var wg sync.WaitGroup
+	var once sync.Once
+	var pv any
+	var stack []byte
+	for w := range workers {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			defer func() {
+				if v := recover(); v != nil {
+					once.Do(func() { pv, stack = v, debug.Stack() })
+					ctr.Store(int64(n))
+				}
+			}()
+			body(w, next)
+		}()
+	}
+	wg.Wait()
+	if pv != nil {
+		panic(fmt.Sprintf("%v\n\nworker goroutine stack:\n%s", pv, stack))
+	}
+}
+
+// fallback fits replicate r by the QR path. cbuf, if not nil, holds its
+// counts.
+func (e *batchEngine) fallback(r int, cbuf []int32) {
+	n, p := e.src.n, e.src.p
+	if cbuf == nil {
+		cbuf = make([]int32, n)
+		e.fetch(r, cbuf)
+	}
+	res := e.res
+	res.Fallback[r] = true
+	var lm *LinearModel
+	var err error
+	if e.w == nil {
+		cw := make([]float64, n)
+		for i, c := range cbuf {
+			cw[i] = float64(c)
+		}
+		lm, err = OLS{Weights: Frequency, Tol: e.bt.Tol}.FitLinear(e.x, e.y, cw)
+	} else {
+		lm, err = e.materialised(cbuf)
+	}
+	coef, se, est := res.Coef[r*p:(r+1)*p], res.StdErr[r*p:(r+1)*p], res.Estimable[r*p:(r+1)*p]
+	if err != nil {
+		res.Err[r] = err
+		for j := range coef {
+			coef[j], se[j], est[j] = math.NaN(), math.NaN(), false
+		}
+		res.ResidSE[r] = math.NaN()
+		return
+	}
+	rank := 0
+	for j, c := range lm.Coefficients() {
+		coef[j], se[j], est[j] = c.Estimate, c.StdErr, c.Estimable
+		if c.Estimable {
+			rank++
+		}
+	}
+	st := lm.Statistics()
+	res.ResidSE[r], res.Rows[r], res.Rank[r] = st.ResidSE, st.Rows, rank
+}
+
+// materialised fits OLS with precision weights on the replicate with its
+// rows repeated.
+func (e *batchEngine) materialised(cbuf []int32) (*LinearModel, error) {
+	p := e.src.p
+	total := 0
+	for _, c := range cbuf {
+		total += int(c)
+	}
+	xr := mat.NewDense(max(total, 1), p, nil)
+	yr := make([]float64, 0, total)
+	wr := make([]float64, 0, total)
+	row := make([]float64, p)
+	k := 0
+	for i, c := range cbuf {
+		if c == 0 {
+			continue
+		}
+		e.src.row(i, row)
+		for range c {
+			xr.SetRow(k, row)
+			yr = append(yr, e.y[i])
+			wr = append(wr, e.w[i])
+			k++
+		}
+	}
+	if total == 0 {
+		return nil, fmt.Errorf("%w: the replicate has no rows", ErrTooFewRows)
+	}
+	return OLS{Weights: Precision, Tol: e.bt.Tol}.FitLinear(xr, yr, wr)
+}
+
+func (e *batchEngine) fetch(r int, dst []int32) {
+	e.counts(r, dst)
+	for i, c := range dst {
+		if c < 0 {
+			panic(fmt.Sprintf("fit: Batch: replicate %d, row %d: negative count %d", r, i+1, c))
+		}
+	}
+}
+
+// blockSize is the number of replicates whose counts are held at once.
+func (e *batchEngine) blockSize() int {
+	n, p := e.src.n, e.src.p
+	budget := max(4*n*p, 4<<20)
+	bb := budget / max(n, 1) / blockxp.Tile * blockxp.Tile
+	bb = max(bb, blockxp.Tile)
+	return min(bb, (e.B+blockxp.Tile-1)/blockxp.Tile*blockxp.Tile)
+}
+
+func (e *batchEngine) runBlocks() {
+	n := e.src.n
+	bb := e.blockSize()
+	if bb == 0 {
+		return
+	}
+	counts8 := make([]uint8, bb*n)
+	sums := make([]float64, bb*e.l.qpad)
+	over := make([]bool, bb)
+	bufs := make([][]int32, e.workers)
+	works := make([]*solveWork, e.workers)
+	fits := make([]repFit, e.workers)
+	for w := range bufs {
+		bufs[w] = make([]int32, n)
+		works[w] = newSolveWork(e.l.k)
+		fits[w] = newRepFit(e.src.p)
+	}
+	var bstd []float64
+	if e.bt.OutOfBag {
+		bstd = make([]float64, bb*e.l.k)
+	}
+	for r0 := 0; r0 < e.B; r0 += bb {
+		nr := min(bb, e.B-r0)
+		tiles := (nr + blockxp.Tile - 1) / blockxp.Tile
+		// 1. Counts, tile-interleaved: counts8[(t*n+i)*4+lane].
+		clear(counts8[:tiles*blockxp.Tile*n])
+		parallel(e.workers, nr, func(w int, next func() (int, bool)) {
+			buf := bufs[w]
+			for rr, ok := next(); ok; rr, ok = next() {
+				e.fetch(r0+rr, buf)
+				t, lane := rr/blockxp.Tile, rr%blockxp.Tile
+				dst := counts8[t*n*blockxp.Tile:]
+				big := false
+				for i, c := range buf {
+					if c > 255 {
+						big, c = true, 255
+					}
+					dst[i*blockxp.Tile+lane] = uint8(c)
+				}
+				over[rr] = big
+			}
+		})
+		// 2. Cross-products, tiles shared out in contiguous runs.
+		clear(sums)
+		e.crossProducts(counts8, sums, tiles)
+		// 3. Solve, with the QR path where needed.
+		parallel(e.workers, nr, func(w int, next func() (int, bool)) {
+			for rr, ok := next(); ok; rr, ok = next() {
+				r := r0 + rr
+				out := &fits[w]
+				s := sums[rr*e.l.qpad : rr*e.l.qpad+e.l.q]
+				if !over[rr] && e.m.solve(e.l, s, e.condLimit, works[w], out) {
+					e.store(r, out)
+					if bstd != nil {
+						copy(bstd[rr*e.l.k:], works[w].b)
+					}
+					continue
+				}
+				e.fetch(r, bufs[w])
+				e.fallback(r, bufs[w])
+				if bstd != nil {
+					e.m.toStd(bstd[rr*e.l.k:(rr+1)*e.l.k], e.res.Coef[r*e.src.p:(r+1)*e.src.p])
+				}
+			}
+		})
+		if bstd != nil {
+			e.outOfBag(counts8, bstd, r0, nr, tiles)
+		}
+	}
+}
+
+func (e *batchEngine) store(r int, f *repFit) {
+	p := e.src.p
+	res := e.res
+	copy(res.Coef[r*p:(r+1)*p], f.coef)
+	copy(res.StdErr[r*p:(r+1)*p], f.se)
+	copy(res.Estimable[r*p:(r+1)*p], f.estimable)
+	res.ResidSE[r], res.Rows[r], res.Rank[r] = f.residSE, f.rows, f.rank
+}
+
+// tileRange returns worker w's contiguous run of tiles.
+func tileRange(w, workers, tiles int) (int, int) {
+	return w * tiles / workers, (w + 1) * tiles / workers
+}
+
+// crossProducts adds Counts·Z for the block's tiles into sums (tile t,
+// lane r at row t*4+r, stride qpad). Each worker owns a contiguous run of
+// tiles and builds its own blocks of Z, so every sum is formed in the same
+// order whatever the number of workers.
+func (e *batchEngine) crossProducts(counts8 []uint8, sums []float64, tiles int) {
+	n, l := e.src.n, e.l
+	const T, S = blockxp.Tile, blockxp.Strip
+	strips := l.qpad / S
+	workers := min(e.workers, tiles)
+	parallel(workers, workers, func(_ int, next func() (int, bool)) {
+		for w, ok := next(); ok; w, ok = next() {
+			t0, t1 := tileRange(w, workers, tiles)
+			if t0 == t1 {
+				continue
+			}
+			zp := make([]float64, strips*batchRows*S)
+			ap := make([]float64, (t1-t0)*batchRows*T)
+			z := make([]float64, l.qpad)
+			row := make([]float64, e.src.p)
+			u := make([]float64, l.k)
+			for i0 := 0; i0 < n; i0 += batchRows {
+				nb := min(batchRows, n-i0)
+				for k := range nb {
+					i := i0 + k
+					e.src.row(i, row)
+					v := e.m.standardise(u, row, e.y[i])
+					l.fill(z, u, v, e.weight(i))
+					for s := range strips {
+						copy(zp[(s*nb+k)*S:(s*nb+k)*S+S], z[s*S:s*S+S])
+					}
+				}
+				for t := t0; t < t1; t++ {
+					src := counts8[(t*n+i0)*T : (t*n+i0+nb)*T]
+					dst := ap[(t-t0)*batchRows*T : (t-t0)*batchRows*T+nb*T]
+					for j, c := range src {
+						dst[j] = float64(c)
+					}
+				}
+				for s := range strips {
+					zs := zp[s*nb*S : (s+1)*nb*S]
+					for t := t0; t < t1; t++ {
+						blockxp.MulAdd(nb, ap[(t-t0)*batchRows*T:], zs, sums[t*T*l.qpad+s*S:], l.qpad)
+					}
+				}
+			}
+		}
+	})
+}
+
+// outOfBag computes the out-of-bag errors of the block's replicates from
+// their standardised coefficients bstd (k per replicate): predictions for
+// 12 rows and 4 replicates at a time by the same kernel, errors summed over
+// the rows with count zero in row order.
+func (e *batchEngine) outOfBag(counts8 []uint8, bstd []float64, r0, nr, tiles int) {
+	n, k := e.src.n, e.l.k
+	const T, S = blockxp.Tile, blockxp.Strip
+	workers := min(e.workers, tiles)
+	sy := e.m.std.YScale
+	parallel(workers, workers, func(_ int, next func() (int, bool)) {
+		for w, ok := next(); ok; w, ok = next() {
+			t0, t1 := tileRange(w, workers, tiles)
+			if t0 == t1 {
+				continue
+			}
+			nt := t1 - t0
+			ap := make([]float64, nt*k*T)
+			for t := t0; t < t1; t++ {
+				for lane := range T {
+					rr := t*T + lane
+					if rr >= nr {
+						continue
+					}
+					for a := range k {
+						ap[(t-t0)*k*T+a*T+lane] = bstd[rr*k+a]
+					}
+				}
+			}
+			sq := make([]float64, nt*T)
+			ab := make([]float64, nt*T)
+			cnt := make([]int, nt*T)
+			zp := make([]float64, k*S)
+			vs := make([]float64, S)
+			pred := make([]float64, T*S)
+			row := make([]float64, e.src.p)
+			u := make([]float64, k)
+			for i0 := 0; i0 < n; i0 += S {
+				nb := min(S, n-i0)
+				clear(zp)
+				for j := range nb {
+					e.src.row(i0+j, row)
+					vs[j] = e.m.standardise(u, row, e.y[i0+j])
+					for a := range k {
+						zp[a*S+j] = u[a]
+					}
+				}
+				for t := t0; t < t1; t++ {
+					clear(pred)
+					blockxp.MulAdd(k, ap[(t-t0)*k*T:], zp, pred, S)
+					c := counts8[(t*n+i0)*T:]
+					for j := range nb {
+						for lane := range T {
+							if c[j*T+lane] != 0 {
+								continue
+							}
+							d := vs[j] - pred[lane*S+j]
+							x := (t-t0)*T + lane
+							sq[x] += d * d
+							ab[x] += math.Abs(d)
+							cnt[x]++
+						}
+					}
+				}
+			}
+			for t := t0; t < t1; t++ {
+				for lane := range T {
+					rr := t*T + lane
+					if rr >= nr {
+						continue
+					}
+					x, r := (t-t0)*T+lane, r0+rr
+					e.res.OutOfBagRows[r] = cnt[x]
+					if cnt[x] == 0 {
+						e.res.OutOfBagRMSE[r], e.res.OutOfBagMAE[r] = math.NaN(), math.NaN()
+						continue
+					}
+					e.res.OutOfBagRMSE[r] = sy * math.Sqrt(sq[x]/float64(cnt[x]))
+					e.res.OutOfBagMAE[r] = sy * ab[x] / float64(cnt[x])
+				}
+			}
+		}
+	})
+}
+
+// outOfBagDirect computes replicate r's out-of-bag errors row by row in
+// design units, for runs where no replicate takes the fast path.
+func (e *batchEngine) outOfBagDirect(r int, c []int32) {
+	p := e.src.p
+	beta := e.res.Coef[r*p : (r+1)*p]
+	row := make([]float64, p)
+	var sq, ab float64
+	m := 0
+	for i, ci := range c {
+		if ci != 0 {
+			continue
+		}
+		e.src.row(i, row)
+		pr := 0.0
+		for j, b := range beta {
+			if !math.IsNaN(b) {
+				pr += b * row[j]
+			}
+		}
+		d := e.y[i] - pr
+		sq += d * d
+		ab += math.Abs(d)
+		m++
+	}
+	e.res.OutOfBagRows[r] = m
+	if m == 0 {
+		e.res.OutOfBagRMSE[r], e.res.OutOfBagMAE[r] = math.NaN(), math.NaN()
+		return
+	}
+	e.res.OutOfBagRMSE[r] = math.Sqrt(sq / float64(m))
+	e.res.OutOfBagMAE[r] = ab / float64(m)
+}
