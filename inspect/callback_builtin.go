@@ -107,3 +107,64 @@ func extraOf(all, learned []string) []string {
 	}
 	return all[len(learned):]
 }
+
+// StatisticOf turns the values kept by k into a [Statistic] for
+// [Summarize] through f: Estimate is f of the full-data value, Values[r]
+// is f of replicate r's value and Errs are k's errors, so the summary
+// counts every failed replicate. It returns the full-data error if the
+// callback failed there. After a streamed run, which keeps no values, it
+// returns an error.
+func StatisticOf[T any](k *Kept[T], name string, f func(T) float64) (Statistic, error) {
+	full, err := k.Full()
+	if err != nil {
+		return Statistic{}, err
+	}
+	if k.vals == nil {
+		return Statistic{}, fmt.Errorf("inspect: Kept %q holds no values (never run, or streamed)", k.b.name)
+	}
+	s := Statistic{Name: name, Estimate: f(full), Values: make([]float64, len(k.vals)), Errs: k.errs}
+	for r, v := range k.vals {
+		if k.errs[r] == nil {
+			s.Values[r] = f(v)
+		}
+	}
+	return s, nil
+}
+
+// CoefficientStatistics turns the values kept by a [KeepCoefficients]
+// Keeper into one [Statistic] per full-data design column, in design
+// order: Estimate and StdErr from the full-data fit, Values and StdErrs
+// from the replicates (NaN where the coefficient was not estimable, which
+// the summary counts as such), Errs from the Keeper. It returns an error
+// as [StatisticOf] does. A coefficient the full-data fit could not
+// estimate gets a NaN Estimate, which Summarize reports as an error for
+// that statistic alone.
+func CoefficientStatistics(k *Kept[[]fit.Coefficient]) ([]Statistic, error) {
+	full, err := k.Full()
+	if err != nil {
+		return nil, err
+	}
+	if k.vals == nil {
+		return nil, fmt.Errorf("inspect: Kept %q holds no values (never run, or streamed)", k.b.name)
+	}
+	out := make([]Statistic, len(full))
+	for j, c := range full {
+		if !c.Estimable {
+			c.Estimate, c.StdErr = math.NaN(), 0
+		}
+		s := Statistic{Name: c.Name, Estimate: c.Estimate, StdErr: c.StdErr, Errs: k.errs,
+			Values: make([]float64, len(k.vals)), StdErrs: make([]float64, len(k.vals))}
+		for r, cs := range k.vals {
+			if k.errs[r] != nil {
+				continue
+			}
+			v, se := cs[j].Estimate, cs[j].StdErr
+			if !cs[j].Estimable {
+				v, se = math.NaN(), math.NaN()
+			}
+			s.Values[r], s.StdErrs[r] = v, se
+		}
+		out[j] = s
+	}
+	return out, nil
+}
