@@ -1,6 +1,8 @@
 package holiday
 
 import (
+	"github.com/rickar/cal/v2"
+	"github.com/rickar/cal/v2/gb"
 	"testing"
 	"time"
 )
@@ -38,3 +40,5 @@ func sortStrings(s []string) {
 		}
 	}
 }
+
+func gbHolidaysRaw() []*cal.Holiday { return gb.Holidays }
