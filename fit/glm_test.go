@@ -5,10 +5,13 @@ import (
 	"math"
 	"math/rand/v2"
 	"strings"
+	"sync"
 	"testing"
 
+	"github.com/google/go-cmp/cmp"
 	"gonum.org/v1/gonum/mat"
 
+	"github.com/kalends/kalends/features"
 	"github.com/kalends/kalends/fit"
 )
 
@@ -383,5 +386,87 @@ func TestGLMCovariance(t *testing.T) {
 	}
 	if got := m.Intercept(); got != 0 {
 		t.Errorf("Intercept: got %d, want 0", got)
+	}
+}
+
+func TestGLMConcurrentAndColumnar(t *testing.T) {
+	// One GLM value fitted from several goroutines (run with -race) gives
+	// the same result as a single fit, and a column-stored design with
+	// names (features.Table) gives the same result as a *mat.Dense.
+	ga := readTable(t, "gamma.csv")
+	x := ga.design(true, "reach", "quiet")
+	g := fit.GLM{Family: fit.Gamma}
+	want, err := g.FitGLM(x, ga["spend"], ga["w"])
+	if err != nil {
+		t.Fatal(err)
+	}
+	tb := features.NewTable(len(ga["spend"]))
+	ones := make([]float64, len(ga["spend"]))
+	for i := range ones {
+		ones[i] = 1
+	}
+	for _, c := range []struct {
+		name string
+		v    []float64
+	}{{"intercept", ones}, {"reach", ga["reach"]}, {"quiet", ga["quiet"]}} {
+		if err := tb.Append(c.name, c.v); err != nil {
+			t.Fatal(err)
+		}
+	}
+	const workers = 4
+	got := make([][]fit.Coefficient, workers)
+	var wg sync.WaitGroup
+	for k := range workers {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			var design mat.Matrix = x
+			if k%2 == 1 {
+				design = tb
+			}
+			m, err := g.FitGLM(design, ga["spend"], ga["w"])
+			if err != nil {
+				t.Error(err)
+				return
+			}
+			got[k] = m.Coefficients()
+		}()
+	}
+	wg.Wait()
+	for k := range workers {
+		if diff := cmp.Diff(want.Coefficients(), got[k]); diff != "" {
+			t.Errorf("worker %d: coefficients differ (-want +got):\n%s", k, diff)
+		}
+	}
+}
+
+func TestGLMPoissonEmptyLevel(t *testing.T) {
+	// A dummy whose rows all have count 0 drives its coefficient towards
+	// −∞; like R's glm, the fit stops by the deviance rule with a large
+	// negative estimate and a huge standard error instead of failing.
+	// Source: R 4.2.2, i <- 0:29; d <- as.numeric(i < 5);
+	// y <- ifelse(i < 5, 0, 1 + i %% 4); glm(y ~ d, family = poisson()):
+	// estimate −20.2108437, SE 4215.7112161, 17 iterations (printed to 9
+	// digits, hence the tolerance 1e-8).
+	n := 30
+	x := mat.NewDense(n, 2, nil)
+	y := make([]float64, n)
+	for i := range n {
+		x.Set(i, 0, 1)
+		if i < 5 {
+			x.Set(i, 1, 1) // y = 0 in these rows
+		} else {
+			y[i] = float64(1 + i%4)
+		}
+	}
+	m, err := fit.GLM{Family: fit.Poisson}.FitGLM(x, y, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	c := m.Coefficients()[1]
+	checkClose(t, "estimate", c.Estimate, -20.2108437, 1e-8)
+	checkClose(t, "stderr", c.StdErr, 4215.7112161, 1e-8)
+	if got := m.Statistics().Iterations; got != 17 {
+		t.Errorf("iterations: got %d, want 17", got)
 	}
 }
