@@ -203,7 +203,7 @@ type Warning struct {
 	Kind WarningKind
 	// End is the end concerned.
 	End End
-	// Used is the number of replicates (ExtremeOrder).
+	// Used is the number of usable replicates the warning concerns.
 	Used int
 	// Need is the fewest replicates that would give an interior endpoint
 	// at this level by the same quantile rule (ExtremeOrder); see

@@ -331,3 +331,17 @@ func TestStrings(t *testing.T) {
 		}
 	}
 }
+
+// BenchmarkSummarize summarizes B = 1000 replicates with all five methods.
+func BenchmarkSummarize(b *testing.B) {
+	vals := spread(1000)
+	ses := seq(1000, func(i int) float64 { return 1 + float64(i%7)/10 })
+	jack := seq(50, func(i int) float64 { return 11 + float64(i*i%13)/100 })
+	in := inspect.Statistic{Estimate: 11, Values: vals, StdErr: 1.2, StdErrs: ses, Jackknife: jack}
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := inspect.Summarize(in, inspect.Config{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
