@@ -191,8 +191,8 @@ func (p Part) accepts(e Encoding) bool {
 
 // Spec asks for one calendar part in one encoding.
 type Spec struct {
-	Part     Part
-	Encoding Encoding
+	Part     Part     // the part; required
+	Encoding Encoding // zero means Number
 
 	// Reference is the level left out of Indicator columns, written as in
 	// the column name after "=" ("January", "Monday", "2019", "3"), so that
@@ -229,6 +229,6 @@ func (u TrendUnit) String() string {
 // location in use, so a day across a daylight-saving change is still 1
 // day; dates before Origin give negative values.
 type Trend struct {
-	Origin time.Time
-	Unit   TrendUnit
+	Origin time.Time // required: the zero time.Time is an error
+	Unit   TrendUnit // zero means Days
 }
