@@ -243,6 +243,7 @@ type TooFewError struct {
 	First []error
 }
 
+// Error names the statistic, the counts and the first failures.
 func (e *TooFewError) Error() string {
 	var b strings.Builder
 	fmt.Fprintf(&b, "inspect: %s: %d usable of %d replicates, need at least 2 (%d failed, %d not estimable)",
