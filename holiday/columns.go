@@ -256,8 +256,19 @@ func (e *encoder) Encode(dst *features.Table, dates []time.Time) error {
 	idx := make([]int32, len(dates))
 	lo, hi := daysFromCivil(MinYear, 1, 1)-baseDay, daysFromCivil(MaxYear+1, 1, 1)-baseDay
 	for i, t := range dates {
-		y, m, d := t.Date()
-		z := daysFromCivil(y, m, d) - baseDay
+		var z int
+		if t.Location() == time.UTC {
+			// Fast path: the civil day of a UTC time is its Unix day.
+			u := t.Unix()
+			q := u / 86400
+			if u%86400 < 0 {
+				q--
+			}
+			z = int(q) - baseDay
+		} else {
+			y, m, d := t.Date()
+			z = daysFromCivil(y, m, d) - baseDay
+		}
 		if z < lo || z >= hi {
 			return &DateError{Row: i + 1, Date: t}
 		}
