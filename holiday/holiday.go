@@ -37,6 +37,7 @@ type RuleError struct {
 	Err   error  // what was wrong
 }
 
+// Error returns "holiday: rule N ("name"): what was wrong".
 func (e *RuleError) Error() string {
 	return fmt.Sprintf("holiday: rule %d (%q): %v", e.Index, e.Name, e.Err)
 }
@@ -54,6 +55,7 @@ type DateError struct {
 	Date time.Time // the date as given
 }
 
+// Error returns a message naming the row and the date.
 func (e *DateError) Error() string {
 	return fmt.Sprintf("holiday: row %d: date %s is outside the covered years %d…%d",
 		e.Row, e.Date.Format(time.DateOnly), MinYear, MaxYear)
