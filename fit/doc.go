@@ -85,6 +85,23 @@
 // NaN estimate and standard error) and everything else is what a fit
 // without it gives.
 //
+// # Built-in estimators
+//
+// [OLS] is least squares by Householder QR with column pivoting, with
+// classical or heteroskedasticity-consistent (HC0–HC3) covariances and the
+// full set of [Stats]. [Ridge] penalises every column but a detected
+// intercept, on internally standardised columns, and reports coefficients
+// on the original scale; it has no standard errors (StdErr is NaN). [GLM]
+// fits the Poisson (log link), binomial (logit link) and Gamma (log link)
+// families by iteratively reweighted least squares, with deviance,
+// dispersion and Wald standard errors; it returns a *[ConvergenceError] when
+// the iterations run out and an error wrapping [ErrSeparation] when a
+// binomial fit separates perfectly. All three detect the intercept as the
+// first column that is constant and non-zero, and report columns the data
+// do not identify as not estimable. For a binomial GLM whose weights are
+// numbers of trials, a resampling run multiplies them by the replicate's
+// row counts.
+//
 // # Determinism and concurrency
 //
 // Fits are deterministic: the same inputs give bit-identical results on
