@@ -28,7 +28,7 @@ type intercept struct{}
 type interceptEncoder struct{}
 
 func (intercept) Learn([]time.Time) (features.Encoder, error) { return interceptEncoder{}, nil }
-func (interceptEncoder) Names() []string                     { return []string{"intercept"} }
+func (interceptEncoder) Names() []string                      { return []string{"intercept"} }
 func (interceptEncoder) Encode(dst *features.Table, dates []time.Time) error {
 	ones := make([]float64, len(dates))
 	for i := range ones {
