@@ -20,6 +20,35 @@
 //
 // # Runs
 //
-// (Section kept for the run engine's guarantees: determinism, ordering,
-// failure handling, cancellation.)
+// [Run] fits a feature set and an estimator to the full data, then to every
+// replicate of a resampling scheme, and calls the caller's [Keep]
+// callbacks on each fitted replicate. [Compare] does so for two feature
+// sets on the same splits; [Predict] resamples residuals for prediction
+// intervals. They keep these rules:
+//
+//   - Determinism: replicate r depends only on the seed and r, never on
+//     scheduling, so results are bit-identical for any Workers.
+//   - Ordering: kept values are written by replicate index; a [Sink] gets
+//     records in replicate order (InOrder) or as they finish (AsDone).
+//     Progress and Sink calls are made on the calling goroutine, one at a
+//     time.
+//   - Failures: a failed learn, fit or callback is recorded against its
+//     replicate as a *[ReplicateError] that unwraps to the cause, and the
+//     run goes on, unless StopOnError is set; replicates never delivered
+//     are marked [ErrNotRun]. Counts say how many replicates each result
+//     rests on.
+//   - Panics: a panic in a callback, Builder, Encoder, Fitter or Predictor
+//     is caught in the worker, the run stops, and it is re-raised on the
+//     calling goroutine as a [PanicError] carrying the original stack, or
+//     recorded as that replicate's failure with RecordPanics.
+//   - Cancellation: the context is checked between replicates; a
+//     cancelled run returns after the replicates in progress, with a
+//     *[StopError] that says how many finished, and leaves no goroutine
+//     behind.
+//   - Memory: kept values take B times their size (coefficients: B·p);
+//     nothing of size n is kept per replicate unless a callback keeps it
+//     ([KeepOutOfBag] keeps about 0.37·n values). A streamed run holds at
+//     most Workers + Buffer records (InOrder) or about 2·Workers (AsDone).
+//   - Sharing: a [Model] (learned feature set and fitted model) is
+//     immutable and safe for concurrent prediction by many goroutines.
 package inspect
