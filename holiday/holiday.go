@@ -122,6 +122,7 @@ type table struct {
 	nw    int            // uint64 words per day in act and obs
 	act   []uint64       // day×nw bitmask of names on their actual date
 	obs   []uint64       // day×nw bitmask of names on their observed date
+	shown []string       // distinct names of MinYear…MaxYear, in order of first occurrence
 }
 
 func (a *Almanac) table() *table {
@@ -142,6 +143,15 @@ func tabulate(years [][]Holiday) *table {
 			if _, ok := t.index[h.Name]; !ok {
 				t.index[h.Name] = len(t.names)
 				t.names = append(t.names, h.Name)
+			}
+		}
+	}
+	seen := make(map[string]bool)
+	for y := MinYear; y <= MaxYear; y++ {
+		for _, h := range years[y-firstYear] {
+			if !seen[h.Name] {
+				seen[h.Name] = true
+				t.shown = append(t.shown, h.Name)
 			}
 		}
 	}
@@ -181,18 +191,7 @@ func (a *Almanac) Holidays(year int) []Holiday {
 // MinYear…MaxYear, in order of first occurrence. These are the holidays
 // that [Columns] makes per-holiday columns for.
 func (a *Almanac) Names() []string {
-	t := a.table()
-	var out []string
-	seen := make(map[string]bool)
-	for y := MinYear; y <= MaxYear; y++ {
-		for _, h := range t.years[y-firstYear] {
-			if !seen[h.Name] {
-				seen[h.Name] = true
-				out = append(out, h.Name)
-			}
-		}
-	}
-	return out
+	return slices.Clone(a.table().shown)
 }
 
 // New returns a calendar of custom holidays declared as data. It returns a
