@@ -223,6 +223,7 @@ type batchEngine struct {
 	condLimit float64
 	workers   int
 	res       *BatchFit
+	scratch   []xpScratch // per worker, reused by every block
 	kept      []int
 	fast      bool
 	m         stdMap
@@ -433,6 +434,7 @@ func (e *batchEngine) runBlocks() {
 		return
 	}
 	counts8 := make([]uint8, bb*n)
+	e.scratch = make([]xpScratch, e.workers)
 	sums := make([]float64, bb*e.l.qpad)
 	over := make([]bool, bb)
 	bufs := make([][]int32, e.workers)
@@ -506,6 +508,24 @@ func (e *batchEngine) store(r int, f *repFit) {
 	res.ResidSE[r], res.Rows[r], res.Rank[r] = f.residSE, f.rows, f.rank
 }
 
+// xpScratch is one worker's buffers for crossProducts.
+type xpScratch struct {
+	zp, ap, z, row, u []float64
+}
+
+func (e *batchEngine) scratchFor(w, tiles int) *xpScratch {
+	s := &e.scratch[w]
+	if s.zp == nil {
+		const T, S = blockxp.Tile, blockxp.Strip
+		s.zp = make([]float64, e.l.qpad/S*batchRows*S)
+		s.z = make([]float64, e.l.qpad)
+		s.row = make([]float64, e.src.p)
+		s.u = make([]float64, e.l.k)
+		s.ap = make([]float64, ((tiles+e.workers-1)/e.workers)*batchRows*T)
+	}
+	return s
+}
+
 // tileRange returns worker w's contiguous run of tiles.
 func tileRange(w, workers, tiles int) (int, int) {
 	return w * tiles / workers, (w + 1) * tiles / workers
@@ -526,11 +546,8 @@ func (e *batchEngine) crossProducts(counts8 []uint8, sums []float64, tiles int) 
 			if t0 == t1 {
 				continue
 			}
-			zp := make([]float64, strips*batchRows*S)
-			ap := make([]float64, (t1-t0)*batchRows*T)
-			z := make([]float64, l.qpad)
-			row := make([]float64, e.src.p)
-			u := make([]float64, l.k)
+			sc := e.scratchFor(w, tiles)
+			zp, ap, z, row, u := sc.zp, sc.ap, sc.z, sc.row, sc.u
 			for i0 := 0; i0 < n; i0 += batchRows {
 				nb := min(batchRows, n-i0)
 				for k := range nb {
