@@ -52,3 +52,23 @@ func BenchmarkEncodePlain1MNewYork(b *testing.B) {
 	}
 	benchmarkPlain(b, loc)
 }
+
+// TestEncodeAllocsIndependentOfN checks that the number of allocations of
+// an Encode does not grow with the number of dates.
+func TestEncodeAllocsIndependentOfN(t *testing.T) {
+	set := features.Set{Parts: []features.Spec{
+		{Part: features.Year}, {Part: features.Month}, {Part: features.Weekday},
+		{Part: features.YearDay}, {Part: features.ISOWeek},
+	}}
+	allocs := func(n int) float64 {
+		dates := benchDates(n, time.UTC)
+		enc, err := set.Learn(dates[:1])
+		if err != nil {
+			t.Fatal(err)
+		}
+		return testing.AllocsPerRun(5, func() { features.Apply(enc, dates) })
+	}
+	if small, large := allocs(10), allocs(20_000); small != large {
+		t.Errorf("allocations per Encode: got %v for 10 dates and %v for 20000, want equal", small, large)
+	}
+}
