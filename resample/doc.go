@@ -1,6 +1,7 @@
 // Package resample draws reproducible resamples of n rows: ordinary,
 // stratified, balanced, block, grouped, Bayesian and Poisson bootstraps,
-// and validation splits (k-fold, rolling origin). A [Scheme] is a value
+// validation splits (k-fold, rolling origin) and the delete-one
+// [Jackknife]. A [Scheme] is a value
 // struct whose zero value works; its Plan method checks it against the
 // data and returns a [Plan], from which replicate r is made on demand as a
 // [Split] of row multiplicities or weights plus the out-of-bag rows. No
@@ -29,7 +30,7 @@
 //   - [Poisson] counts are rng.Poisson1(rng.Keyed(seed, r, key)), key being
 //     the row index or the caller's row key, so a row's count depends on
 //     nothing else (see [PoissonCount]).
-//   - [RollingOrigin] uses no randomness.
+//   - [RollingOrigin] and [Jackknife] use no randomness.
 //
 // Hence replicate r is the same whether it is made first, last, alone or
 // on another goroutine, and a single replicate can be regenerated to debug
