@@ -1,11 +1,11 @@
 // Package resample draws reproducible resamples of n rows: ordinary,
 // stratified, balanced, block, grouped, Bayesian and Poisson bootstraps,
 // validation splits (k-fold, rolling origin) and the delete-one
-// [Jackknife]. A [Scheme] is a value
-// struct whose zero value works; its Plan method checks it against the
-// data and returns a [Plan], from which replicate r is made on demand as a
-// [Split] of row multiplicities or weights plus the out-of-bag rows. No
-// data are copied, and at no time are all replicates held in memory.
+// [Jackknife]. A [Scheme] is a value struct whose zero value works; its
+// Plan method checks it against the data and returns a [Plan], from which
+// replicate r is made on demand as a [Split] of row multiplicities or
+// weights plus the out-of-bag rows. No data are copied, and at no time are
+// all replicates held in memory.
 //
 // # Determinism
 //
