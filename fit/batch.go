@@ -84,8 +84,8 @@ type Batch struct {
 	// have and still be solved by Cholesky; 0 means 1e5, for about 10
 	// correct digits or more.
 	CondLimit float64
-	// OutOfBag asks for out-of-bag RMSE and MAE, at the cost of a second
-	// pass over the data (about p/q of the first).
+	// OutOfBag asks for out-of-bag RMSE, MAE and R², at the cost of a
+	// second pass over the data (about p/q of the first).
 	OutOfBag bool
 	// Workers is the number of goroutines; 0 means runtime.GOMAXPROCS(0)
 	// and 1 runs on the calling goroutine.
@@ -115,11 +115,14 @@ type BatchFit struct {
 	// OutOfBagRows is the number of rows with count zero; OutOfBagRMSE and
 	// OutOfBagMAE are the root mean squared and mean absolute prediction
 	// errors on those rows (unweighted, in outcome units, predictions
-	// reading not-estimable coefficients as zero). They are nil unless
-	// OutOfBag was set; the errors are NaN for a replicate without
-	// out-of-bag rows.
-	OutOfBagRows              []int
-	OutOfBagRMSE, OutOfBagMAE []float64
+	// reading not-estimable coefficients as zero), and OutOfBagR2 is
+	// 1 − Σ(y − ŷ)²/Σ(y − ȳ)² over them, ȳ their mean outcome. They are
+	// nil unless OutOfBag was set. The errors are NaN for a replicate
+	// without out-of-bag rows; R² is NaN also when there are fewer than 2
+	// or their outcomes have no spread (Σ(y − ȳ)² ≤ 10⁻²⁴ȳ², the rule of
+	// inspect.Measure).
+	OutOfBagRows                          []int
+	OutOfBagRMSE, OutOfBagMAE, OutOfBagR2 []float64
 	// Err holds the error of each replicate that could not be fitted (for
 	// example one wrapping ErrTooFewRows), else nil; its row is then NaN.
 	Err []error
@@ -180,6 +183,7 @@ func (bt Batch) Fit(x mat.Matrix, y, weights []float64, B int, counts CountsFunc
 		res.OutOfBagRows = make([]int, B)
 		res.OutOfBagRMSE = make([]float64, B)
 		res.OutOfBagMAE = make([]float64, B)
+		res.OutOfBagR2 = make([]float64, B)
 	}
 	e := &batchEngine{bt: bt, x: x, src: src, y: y, w: weights, B: B, counts: counts, condLimit: condLimit, workers: workers, res: res}
 	e.kept, e.fast = e.fullDataColumns(std)
@@ -585,7 +589,6 @@ func (e *batchEngine) outOfBag(counts8 []uint8, bstd []float64, r0, nr, tiles in
 	n, k := e.src.n, e.l.k
 	const T, S = blockxp.Tile, blockxp.Strip
 	workers := min(e.workers, tiles)
-	sy := e.m.std.YScale
 	parallel(workers, workers, func(_ int, next func() (int, bool)) {
 		for w, ok := next(); ok; w, ok = next() {
 			t0, t1 := tileRange(w, workers, tiles)
@@ -608,6 +611,9 @@ func (e *batchEngine) outOfBag(counts8 []uint8, bstd []float64, r0, nr, tiles in
 			sq := make([]float64, nt*T)
 			ab := make([]float64, nt*T)
 			cnt := make([]int, nt*T)
+			v0 := make([]float64, nt*T)  // first out-of-bag outcome
+			sd := make([]float64, nt*T)  // Σ(v − v0)
+			sdd := make([]float64, nt*T) // Σ(v − v0)²
 			zp := make([]float64, k*S)
 			vs := make([]float64, S)
 			pred := make([]float64, T*S)
@@ -636,6 +642,12 @@ func (e *batchEngine) outOfBag(counts8 []uint8, bstd []float64, r0, nr, tiles in
 							x := (t-t0)*T + lane
 							sq[x] += d * d
 							ab[x] += math.Abs(d)
+							if cnt[x] == 0 {
+								v0[x] = vs[j]
+							}
+							dv := vs[j] - v0[x]
+							sd[x] += dv
+							sdd[x] += dv * dv
 							cnt[x]++
 						}
 					}
@@ -648,13 +660,7 @@ func (e *batchEngine) outOfBag(counts8 []uint8, bstd []float64, r0, nr, tiles in
 						continue
 					}
 					x, r := (t-t0)*T+lane, r0+rr
-					e.res.OutOfBagRows[r] = cnt[x]
-					if cnt[x] == 0 {
-						e.res.OutOfBagRMSE[r], e.res.OutOfBagMAE[r] = math.NaN(), math.NaN()
-						continue
-					}
-					e.res.OutOfBagRMSE[r] = sy * math.Sqrt(sq[x]/float64(cnt[x]))
-					e.res.OutOfBagMAE[r] = sy * ab[x] / float64(cnt[x])
+					e.storeOutOfBag(r, cnt[x], sq[x], ab[x], v0[x], sd[x], sdd[x])
 				}
 			}
 		}
@@ -667,7 +673,7 @@ func (e *batchEngine) outOfBagDirect(r int, c []int32) {
 	p := e.src.p
 	beta := e.res.Coef[r*p : (r+1)*p]
 	row := make([]float64, p)
-	var sq, ab float64
+	var sq, ab, y0, sd, sdd float64
 	m := 0
 	for i, ci := range c {
 		if ci != 0 {
@@ -683,13 +689,43 @@ func (e *batchEngine) outOfBagDirect(r int, c []int32) {
 		d := e.y[i] - pr
 		sq += d * d
 		ab += math.Abs(d)
+		if m == 0 {
+			y0 = e.y[i]
+		}
+		dv := e.y[i] - y0
+		sd += dv
+		sdd += dv * dv
 		m++
 	}
-	e.res.OutOfBagRows[r] = m
+	e.storeOutOfBagUnits(r, m, sq, ab, y0, sd, sdd, 1, 0)
+}
+
+// storeOutOfBag stores replicate r's out-of-bag errors from sums in
+// standardised outcome units: m rows, Σd², Σ|d| of the prediction errors
+// d, the first out-of-bag outcome v0, and Σ(v − v0), Σ(v − v0)².
+func (e *batchEngine) storeOutOfBag(r, m int, sq, ab, v0, sd, sdd float64) {
+	st := e.m.std
+	e.storeOutOfBagUnits(r, m, sq, ab, v0, sd, sdd, st.YScale, st.YCentre)
+}
+
+// storeOutOfBagUnits is storeOutOfBag for sums in units where the outcome
+// is (y − centre)/scale.
+func (e *batchEngine) storeOutOfBagUnits(r, m int, sq, ab, v0, sd, sdd, scale, centre float64) {
+	res := e.res
+	res.OutOfBagRows[r] = m
 	if m == 0 {
-		e.res.OutOfBagRMSE[r], e.res.OutOfBagMAE[r] = math.NaN(), math.NaN()
+		res.OutOfBagRMSE[r], res.OutOfBagMAE[r], res.OutOfBagR2[r] = math.NaN(), math.NaN(), math.NaN()
 		return
 	}
-	e.res.OutOfBagRMSE[r] = math.Sqrt(sq / float64(m))
-	e.res.OutOfBagMAE[r] = ab / float64(m)
+	fm := float64(m)
+	res.OutOfBagRMSE[r] = scale * math.Sqrt(sq/fm)
+	res.OutOfBagMAE[r] = scale * ab / fm
+	// Σ(y − ȳ)² and ȳ in outcome units, as inspect.Measure judges them.
+	sst := scale * scale * max(sdd-sd*sd/fm, 0)
+	mean := centre + scale*(v0+sd/fm)
+	if m < 2 || sst <= 1e-24*mean*mean {
+		res.OutOfBagR2[r] = math.NaN()
+		return
+	}
+	res.OutOfBagR2[r] = 1 - scale*scale*sq/sst
 }

@@ -194,12 +194,13 @@ func TestBatchAgreesWithQR(t *testing.T) {
 					t.Errorf("replicate %d: rows, rank got %v, %d, want %v, %d", r, got.Rows[r], got.Rank[r], st.Rows, st.Params)
 				}
 				// Out-of-bag errors from the reference coefficients.
-				var sq, ab float64
+				var sq, ab, ysum float64
 				m := 0
 				for i := range n {
 					if c[i] != 0 {
 						continue
 					}
+					ysum += tt.y[i]
 					pr := 0.0
 					for j, wc := range coefs {
 						if wc.Estimable {
@@ -219,6 +220,17 @@ func TestBatchAgreesWithQR(t *testing.T) {
 				}
 				if d := relDiff(got.OutOfBagMAE[r], ab/float64(m), 0); d > oobTol {
 					t.Errorf("replicate %d: OOB MAE got %v, want %v", r, got.OutOfBagMAE[r], ab/float64(m))
+				}
+				// R² about the out-of-bag mean, by two passes.
+				var sst float64
+				for i := range n {
+					if c[i] == 0 {
+						d := tt.y[i] - ysum/float64(m)
+						sst += d * d
+					}
+				}
+				if d := relDiff(got.OutOfBagR2[r], 1-sq/sst, 0); d > oobTol {
+					t.Errorf("replicate %d: OOB R² got %v, want %v", r, got.OutOfBagR2[r], 1-sq/sst)
 				}
 			}
 			t.Logf("%d of %d replicates by QR; max |Δβ|/max(|β|,SE) %.2g, max elementwise rel Δβ %.2g, max rel ΔSE %.2g", fallbacks, B, maxCoef, maxElem, maxSE)
