@@ -1,22 +1,27 @@
 package fit
 
 import (
-	"errors"
 	"fmt"
 	"math"
+	"sync"
 
-	"gonum.org/v1/gonum/blas"
-	"gonum.org/v1/gonum/blas/blas64"
-	"gonum.org/v1/gonum/lapack"
-	"gonum.org/v1/gonum/lapack/lapack64"
+	"gonum.org/v1/gonum/floats"
 )
 
 // This file holds the least-squares core shared by OLS and the batched
-// paths: a rank-revealing Householder QR with column pivoting (LAPACK
-// Dgeqp3) on the weighted, centred and equilibrated design, with
-// iterative refinement of the augmented system (Björck 1967) using
-// residuals accumulated in double-double arithmetic when the design is
-// ill-conditioned.
+// paths: a rank-revealing Householder QR with column pivoting of the
+// weighted, centred and equilibrated design, with iterative refinement of
+// the augmented system (Björck 1967) using residuals accumulated in
+// double-double arithmetic when the design is ill-conditioned.
+//
+// The factorisation is done in two stages (see qr_tall.go): an unpivoted
+// blocked Householder QR of the n×q design, A = Q₁R₁, and a Householder
+// QR with column pivoting of the q×q triangle, R₁P = Q₂R. Since Q₁ is
+// orthogonal this is a column-pivoted QR of A, AP = Q₁·diag(Q₂, I)·R, with
+// the pivots, the rank and the column choice of a pivoted QR of A itself.
+// Scratch memory comes from solverPool, a sync.Pool of solvers, so that a
+// fit allocates little more than its results; a pooled solver keeps no
+// reference to the caller's data.
 
 // lsSpec configures leastSquares.
 type lsSpec struct {
@@ -28,8 +33,8 @@ type lsSpec struct {
 	Refine int
 }
 
-// refineCond is the condition number (1-norm estimate, equilibrated design)
-// above which leastSquares refines its solution and covariance.
+// refineCond is the condition number (1-norm, equilibrated design) above
+// which leastSquares refines its solution and covariance.
 const refineCond = 1e3
 
 // refineIters is the most refinement steps taken.
@@ -51,7 +56,7 @@ type lsFit struct {
 	tss       float64   // Σ w (y − ȳ)² with an intercept, Σ w y² without
 	nobs      float64   // rows used: count of w > 0, or Σ w for frequency
 	sumLogW   float64   // Σ log w over rows used (precision weights only)
-	cond      float64   // 1-norm condition estimate of the equilibrated estimable design
+	cond      float64   // 1-norm condition number of R of the equilibrated estimable design
 	refined   bool
 }
 
@@ -78,44 +83,17 @@ func leastSquares(x []float64, n, p int, y, w []float64, spec lsSpec) (*lsFit, e
 	if !spec.Cov.valid() {
 		panic(fmt.Sprintf("fit: invalid covariance kind %d", int(spec.Cov)))
 	}
-	if err := validate(x, n, p, y, w); err != nil {
-		return nil, err
-	}
-	s := &lsSolver{x: x, n: n, p: p, y: y, w: w, spec: spec}
-	return s.run()
+	s := solverPool.Get().(*lsSolver)
+	s.x, s.n, s.p, s.y, s.w, s.spec = x, n, p, y, w, spec
+	res, err := s.run()
+	s.x, s.y, s.w = nil, nil, nil
+	solverPool.Put(s)
+	return res, err
 }
 
-// validate checks for NaN, infinite and negative values row by row.
-func validate(x []float64, n, p int, y, w []float64) error {
-	anyPos := w == nil
-	for i := range n {
-		row := x[i*p : i*p+p]
-		for j, v := range row {
-			if math.IsNaN(v) || math.IsInf(v, 0) {
-				return &DataError{Row: i + 1, Column: j + 1, Value: v, Err: badValue(v)}
-			}
-		}
-		if v := y[i]; math.IsNaN(v) || math.IsInf(v, 0) {
-			return &DataError{Row: i + 1, Name: "outcome", Value: v, Err: badValue(v)}
-		}
-		if w != nil {
-			v := w[i]
-			if math.IsNaN(v) || math.IsInf(v, 0) {
-				return &DataError{Row: i + 1, Name: "weights", Value: v, Err: badValue(v)}
-			}
-			if v < 0 {
-				return &DataError{Row: i + 1, Name: "weights", Value: v, Err: fmt.Errorf("negative weight: %w", ErrBadValue)}
-			}
-			if v > 0 {
-				anyPos = true
-			}
-		}
-	}
-	if !anyPos && n > 0 {
-		return fmt.Errorf("fit: weights: all %d weights are zero: %w", n, ErrBadValue)
-	}
-	return nil
-}
+// solverPool holds lsSolvers with their scratch memory for reuse. A solver
+// is used by one fit at a time; results never alias its memory.
+var solverPool = sync.Pool{New: func() any { return new(lsSolver) }}
 
 func badValue(v float64) error {
 	if math.IsNaN(v) {
@@ -124,124 +102,115 @@ func badValue(v float64) error {
 	return fmt.Errorf("infinite value: %w", ErrBadValue)
 }
 
-// lsSolver holds the state of one fit.
+// lsSolver holds the state and scratch memory of one fit.
 type lsSolver struct {
-	x       []float64
-	n, p    int
-	y, w    []float64
-	spec    lsSpec
-	used    []int     // rows with positive weight
-	sw      []float64 // sqrt of the weight of each used row (nil: all 1)
+	x    []float64
+	n, p int
+	y, w []float64
+	spec lsSpec
+
+	nu      int       // rows used (positive weight)
+	used    []int     // their indices; unused when w == nil (all rows)
+	sw      []float64 // sqrt of the weight of each used row; unused when w == nil
+	sumW    float64
+	sumLogW float64
 	mean    []float64 // column means removed (0 for no intercept, and the intercept)
 	scale   []float64 // column norms after weighting and centring
 	icpt    int       // intercept column or -1
 	icptVal float64   // its constant value
-	cols    []int     // design columns of the factorised matrix, in order
-	a       []float64 // len(used)×len(cols) factorised matrix (R and reflectors)
-	tau     []float64
-	piv     []int // R column k is cols[piv[k]]
-	work    []float64
+	ybar    float64   // weighted mean of y removed before factorising (0 without intercept)
+	cand    []int     // columns not constant: the columns of the tall factorisation
+	cols    []int     // estimable design columns, in order
+	q0      int       // len(cand)
+
+	qr   tallQR    // A = Q₁R₁ over the candidate columns and the outcome
+	r1   []float64 // R₁ (q0×q0, column-major), columns scaled to unit norm
+	pq   pivQR     // R₁[:, sel]·P = Q₂R, R column c is cols[piv[c]]
+	uy   []float64 // Qᵀ√W(y − ȳ), first q0 values
+	rinv []float64 // R⁻¹ (q×q, column-major)
+
+	// scratch
+	f0, f1, f2, f3 []float64
+	ib             []int
+	nc             []bool
+}
+
+// piv returns the pivots: R column c is design column cols[piv[c]].
+func (s *lsSolver) piv() []int { return s.pq.piv }
+
+// row returns the design row and the square-root weight of the k-th used row.
+func (s *lsSolver) row(k int) (i int, sw float64) {
+	if s.w == nil {
+		return k, 1
+	}
+	return s.used[k], s.sw[k]
+}
+
+// wt returns the weight of the k-th used row.
+func (s *lsSolver) wt(k int) float64 {
+	if s.w == nil {
+		return 1
+	}
+	return s.w[s.used[k]]
 }
 
 func (s *lsSolver) run() (*lsFit, error) {
 	n, p := s.n, s.p
-	// Rows used.
-	if s.w == nil {
-		s.used = make([]int, n)
-		for i := range s.used {
-			s.used[i] = i
-		}
-	} else {
-		s.sw = make([]float64, 0, n)
-		for i, v := range s.w {
-			if v > 0 {
-				s.used = append(s.used, i)
-				s.sw = append(s.sw, math.Sqrt(v))
-			}
-		}
+	if err := s.scan(); err != nil {
+		return nil, err
 	}
-	nu := len(s.used)
-	res := &lsFit{n: n, p: p, intercept: -1}
-	if s.w == nil || !s.spec.Freq {
-		res.nobs = float64(nu)
-	} else {
-		var sum float64
-		for _, v := range s.w {
-			sum += v
-		}
-		res.nobs = sum
+	nu := s.nu
+	res := &lsFit{n: n, p: p, intercept: s.icpt}
+	res.nobs = float64(nu)
+	if s.w != nil && s.spec.Freq {
+		res.nobs = s.sumW
 	}
-	if s.w != nil && !s.spec.Freq {
-		for _, i := range s.used {
-			res.sumLogW += math.Log(s.w[i])
-		}
-	}
+	res.sumLogW = s.sumLogW
 
-	s.columnStats()
-	res.intercept = s.icpt
-
-	// Candidate columns: those not constant (after centring) over the rows used.
 	tol := s.spec.Tol
 	if tol <= 0 {
 		tol = float64(max(nu, p)) * epsilon
 	}
-	var cand []int
+	s.cand = s.cand[:0]
 	for j := range p {
 		if s.scale[j] > 0 {
-			cand = append(cand, j)
+			s.cand = append(s.cand, j)
 		}
 	}
-	if nu < len(cand) || nu == 0 {
-		return nil, fmt.Errorf("fit: %d rows with positive weight, %d columns to estimate: %w", nu, len(cand), ErrTooFewRows)
+	s.q0 = len(s.cand)
+	if nu < s.q0 || nu == 0 {
+		return nil, fmt.Errorf("fit: %d rows with positive weight, %d columns to estimate: %w", nu, s.q0, ErrTooFewRows)
 	}
-
-	cols := cand
+	s.cols = s.cols[:0]
 	rank := 0
-	if len(cols) > 0 {
-		rank = s.factor(cols, tol)
-		if rank < len(cols) {
-			// Prefer dropping later columns: choose the estimable set in
-			// design order, then factorise that set alone.
-			sel := s.selectInOrder(cols, tol)
-			if len(sel) != rank {
-				// Rare disagreement on a borderline column: trust the
-				// pivoted factorisation.
-				sel = sel[:0]
-				for k := range rank {
-					sel = append(sel, cols[s.piv[k]])
-				}
-				sortInts(sel)
-			}
-			cols = sel
-			if r := s.factor(cols, tol); r != len(cols) {
-				// Cannot happen in exact arithmetic; keep what is left.
-				return nil, &ConditionError{Cond: math.Inf(1)}
-			}
-			rank = len(cols)
+	if s.q0 > 0 {
+		s.factorTall()
+		var err error
+		if rank, err = s.factorSmall(tol); err != nil {
+			return nil, err
 		}
 	}
-	s.cols = cols
 	res.rank = rank
 	res.estimable = make([]bool, p)
-	for _, j := range cols {
+	for _, j := range s.cols {
 		res.estimable[j] = true
 	}
 	if rank > 0 {
-		res.cond = s.condition()
+		res.cond = s.invertR()
 	}
 
 	refine := s.spec.Refine > 0 || (s.spec.Refine == 0 && res.cond > refineCond)
 	res.refined = refine
-	iters := 0
-	if refine {
-		iters = refineIters
-	}
 
 	// Coefficients.
 	beta := make([]float64, p)
-	r := make([]float64, nu)
 	if rank > 0 {
-		s.solveAug(s.y, nil, beta, r, iters)
+		if refine {
+			r := make([]float64, nu)
+			s.solveAug(s.y, nil, beta, r, refineIters)
+		} else {
+			s.solveFast(beta)
+		}
 	}
 	res.coef = make([]float64, p)
 	for j := range p {
@@ -255,39 +224,9 @@ func (s *lsSolver) run() (*lsFit, error) {
 	// Unscaled covariance (XᵀWX)⁻¹.
 	res.unscaled = s.unscaledCov(refine)
 
-	// Residuals: in double-double when refined, or when the plain ones
-	// turn out small next to the outcome (cancellation, R² near 1).
+	// Residuals and sums of squares.
 	res.resid = make([]float64, n)
-	s.residuals(res.resid, beta, refine)
-	if !refine {
-		var ss, yy float64
-		for k, i := range s.used {
-			e, wi := res.resid[i], s.wt(k)
-			ss += wi * e * e
-			yy += wi * s.y[i] * s.y[i]
-		}
-		if ss < 1e-4*yy {
-			s.residuals(res.resid, beta, true)
-		}
-	}
-	var rss, tss ddAcc
-	var ybar float64
-	if s.icpt >= 0 {
-		ybar = s.weightedMean(s.y)
-	}
-	for k, i := range s.used {
-		e := res.resid[i]
-		d := s.y[i] - ybar
-		wi := 1.0
-		if s.w != nil {
-			wi = s.w[i]
-		}
-		_ = k
-		rss.addProd(wi*e, e)
-		tss.addProd(wi*d, d)
-	}
-	res.rss = rss.hi + rss.lo
-	res.tss = tss.hi + tss.lo
+	s.residuals(res, beta, refine)
 
 	// Final covariance.
 	res.cov = make([]float64, p*p)
@@ -309,220 +248,286 @@ func (s *lsSolver) run() (*lsFit, error) {
 
 const epsilon = 0x1p-52
 
-// residuals writes y − Xβ for every row into dst, accumulated in
-// double-double arithmetic when exact, with fused multiply-adds otherwise.
-func (s *lsSolver) residuals(dst, beta []float64, exact bool) {
-	p := s.p
-	for i := range s.n {
-		row := s.x[i*p : i*p+p]
-		if exact {
-			acc := ddAcc{hi: s.y[i]}
-			for _, j := range s.cols {
-				acc.addProd(-row[j], beta[j])
+// scan validates x, y and w row by row (design columns, then outcome, then
+// weight) and, in the same pass, gathers over the rows used the weight
+// sums and, per column, whether it is constant and its weighted sums of
+// shifted values and squares (shifted by the first row used, which keeps
+// the one-pass variance free of cancellation up to a factor of the number
+// of rows; the scaling only needs to be near unit norm, and is made exact
+// from R₁ after the factorisation). It then finds the intercept, the column
+// means and the column norms.
+func (s *lsSolver) scan() error {
+	n, p, x, y, w := s.n, s.p, s.x, s.y, s.w
+	first := -1
+	if w == nil {
+		if n > 0 {
+			first = 0
+		}
+	} else {
+		for i, v := range w {
+			if v > 0 {
+				first = i
+				break
 			}
-			dst[i] = acc.hi + acc.lo
+		}
+	}
+	s.mean = growFloats(s.mean, p)
+	s.scale = growFloats(s.scale, p)
+	x0 := growFloats(s.f0, p)
+	s1 := growFloats(s.f1, p)
+	s2 := growFloats(s.f2, p)
+	raw := growFloats(s.f3, p)
+	s.f0, s.f1, s.f2, s.f3 = x0, s1, s2, raw
+	if cap(s.nc) < p {
+		s.nc = make([]bool, p)
+	}
+	nc := s.nc[:p]
+	clear(s1)
+	clear(s2)
+	clear(raw)
+	clear(nc)
+	clear(x0)
+	var y0 float64
+	if first >= 0 {
+		copy(x0, x[first*p:first*p+p])
+		y0 = y[first]
+	}
+	s.used = s.used[:0]
+	s.sw = s.sw[:0]
+	var sumW, sy, sumLogW float64
+	for i := range n {
+		row := x[i*p : i*p+p]
+		for j, v := range row {
+			if v-v != 0 {
+				return &DataError{Row: i + 1, Column: j + 1, Value: v, Err: badValue(v)}
+			}
+		}
+		yi := y[i]
+		if yi-yi != 0 {
+			return &DataError{Row: i + 1, Name: "outcome", Value: yi, Err: badValue(yi)}
+		}
+		if w == nil {
+			sumW++
+			sy += yi - y0
+			for j, v := range row {
+				d := v - x0[j]
+				s1[j] += d
+				s2[j] += d * d
+				raw[j] += v * v
+				if d != 0 {
+					nc[j] = true
+				}
+			}
 			continue
 		}
-		e := s.y[i]
-		for _, j := range s.cols {
-			e = math.FMA(-row[j], beta[j], e)
+		wi := w[i]
+		if wi-wi != 0 {
+			return &DataError{Row: i + 1, Name: "weights", Value: wi, Err: badValue(wi)}
 		}
-		dst[i] = e
-	}
-}
-
-// columnStats finds the intercept, the column means to remove and the
-// column norms after weighting and centring.
-func (s *lsSolver) columnStats() {
-	p := s.p
-	s.icpt = -1
-	s.mean = make([]float64, p)
-	s.scale = make([]float64, p)
-	if len(s.used) == 0 {
-		return
-	}
-	first := s.x[s.used[0]*p : s.used[0]*p+p]
-	constant := make([]bool, p)
-	for j := range p {
-		constant[j] = true
-	}
-	for _, i := range s.used[1:] {
-		row := s.x[i*p : i*p+p]
+		if wi < 0 {
+			return &DataError{Row: i + 1, Name: "weights", Value: wi, Err: fmt.Errorf("negative weight: %w", ErrBadValue)}
+		}
+		if wi == 0 {
+			continue
+		}
+		s.used = append(s.used, i)
+		s.sw = append(s.sw, math.Sqrt(wi))
+		if !s.spec.Freq {
+			sumLogW += math.Log(wi)
+		}
+		sumW += wi
+		sy += wi * (yi - y0)
 		for j, v := range row {
-			if v != first[j] {
-				constant[j] = false
+			d := v - x0[j]
+			wd := wi * d
+			s1[j] += wd
+			s2[j] += wd * d
+			raw[j] += wi * v * v
+			if d != 0 {
+				nc[j] = true
 			}
 		}
 	}
+	if w == nil {
+		s.nu = n
+	} else {
+		s.nu = len(s.used)
+		if s.nu == 0 && n > 0 {
+			return fmt.Errorf("fit: weights: all %d weights are zero: %w", n, ErrBadValue)
+		}
+	}
+	s.sumW, s.sumLogW = sumW, sumLogW
+	s.icpt, s.icptVal, s.ybar = -1, 0, 0
+	if s.nu == 0 {
+		clear(s.mean)
+		clear(s.scale)
+		return nil
+	}
 	for j := range p {
-		if constant[j] && first[j] != 0 {
-			s.icpt, s.icptVal = j, first[j]
+		if !nc[j] && x0[j] != 0 {
+			s.icpt, s.icptVal = j, x0[j]
 			break
 		}
 	}
-	// Weighted means and centred norms in two passes: the first sums, the
-	// second accumulates deviations from the provisional mean and corrects
-	// both the mean and the sum of squares (the corrected two-pass
-	// algorithm of Chan, Golub & LeVeque 1983).
-	var sumw float64
 	if s.icpt >= 0 {
-		for k, i := range s.used {
-			wi := s.wt(k)
-			sumw += wi
-			row := s.x[i*p : i*p+p]
-			for j, v := range row {
-				s.mean[j] += wi * v
-			}
-		}
-		for j := range p {
-			s.mean[j] /= sumw
-			if constant[j] {
-				s.mean[j] = first[j]
-			}
-		}
-		s.mean[s.icpt] = 0
-	}
-	raw := make([]float64, p)
-	corr := make([]float64, p)
-	for k, i := range s.used {
-		wi := s.wt(k)
-		row := s.x[i*p : i*p+p]
-		for j, v := range row {
-			d := v - s.mean[j]
-			wd := wi * d
-			corr[j] += wd
-			s.scale[j] += wd * d
-			raw[j] += wi * v * v
-		}
+		s.ybar = y0 + sy/sumW
 	}
 	for j := range p {
-		if s.icpt >= 0 && j != s.icpt && !constant[j] {
-			c := corr[j] / sumw
-			s.mean[j] += c
-			s.scale[j] -= c * corr[j]
-		}
-		s.scale[j] = math.Sqrt(max(s.scale[j], 0))
-		raw[j] = math.Sqrt(raw[j])
+		rawNorm := math.Sqrt(raw[j])
 		switch {
-		case s.icpt >= 0 && j != s.icpt && constant[j]:
-			s.scale[j] = 0 // constant: absorbed by the intercept
-		case s.icpt >= 0 && j != s.icpt && s.scale[j] <= 8*epsilon*raw[j]:
-			s.scale[j] = 0 // constant up to rounding
+		case s.icpt < 0 || j == s.icpt:
+			s.mean[j], s.scale[j] = 0, rawNorm
+		case !nc[j]:
+			s.mean[j], s.scale[j] = x0[j], 0 // constant: absorbed by the intercept
+		default:
+			c := s1[j] / sumW
+			s.mean[j] = x0[j] + c
+			s.scale[j] = math.Sqrt(max(s2[j]-c*s1[j], 0))
+			if s.scale[j] <= 8*epsilon*rawNorm {
+				s.scale[j] = 0 // constant up to rounding
+			}
 		}
 	}
+	return nil
 }
 
-// wt returns the weight of the k-th used row.
-func (s *lsSolver) wt(k int) float64 {
-	if s.w == nil {
-		return 1
-	}
-	return s.w[s.used[k]]
-}
-
-func (s *lsSolver) weightedMean(v []float64) float64 {
-	var sum, sumw float64
-	for k, i := range s.used {
-		wi := s.wt(k)
-		sum += wi * v[i]
-		sumw += wi
-	}
-	m := sum / sumw
-	var corr float64
-	for k, i := range s.used {
-		corr += s.wt(k) * (v[i] - m)
-	}
-	return m + corr/sumw
-}
-
-// fill writes the weighted, centred, equilibrated columns cols of the used
-// rows into s.a (row-major, len(used)×len(cols)).
-func (s *lsSolver) fill(cols []int) {
-	nu, q, p := len(s.used), len(cols), s.p
-	if cap(s.a) < nu*q {
-		s.a = make([]float64, nu*q)
-	}
-	s.a = s.a[:nu*q]
-	inv := make([]float64, q)
-	for c, j := range cols {
-		inv[c] = 1 / s.scale[j]
-	}
-	for k, i := range s.used {
-		row := s.x[i*p : i*p+p]
-		dst := s.a[k*q : k*q+q]
-		sw := 1.0
-		if s.sw != nil {
-			sw = s.sw[k]
-		}
-		for c, j := range cols {
-			dst[c] = sw * (row[j] - s.mean[j]) * inv[c]
+// factorTall fills the weighted, centred, equilibrated candidate columns
+// and the weighted, centred outcome into the blocks of s.qr, one block at
+// a time, reducing each block while it is in cache. It then copies R₁ and
+// the transformed outcome out and rescales the columns of R₁ (and s.scale)
+// so that the columns of the factorised design have unit norm to rounding.
+func (s *lsSolver) factorTall() {
+	nu, p, q0, x, y := s.nu, s.p, s.q0, s.x, s.y
+	cand := s.cand
+	s.qr.reset(nu, q0+1, q0, s.qr.data)
+	inv := growFloats(s.f0, p)
+	s.f0 = inv
+	for j := range p {
+		inv[j] = 0
+		if s.scale[j] > 0 {
+			inv[j] = 1 / s.scale[j]
 		}
 	}
+	mean, ybar := s.mean[:p], s.ybar
+	all := q0 == p
+	for t := range s.qr.blocks() {
+		first, rows, a := s.qr.block(t)
+		ya := a[q0*rows : q0*rows+rows]
+		for r := range rows {
+			i, sw := s.row(first + r)
+			row := x[i*p : i*p+p]
+			if all {
+				for j, v := range row {
+					a[j*rows+r] = sw * (v - mean[j]) * inv[j]
+				}
+			} else {
+				for c, j := range cand {
+					a[c*rows+r] = sw * (row[j] - mean[j]) * inv[j]
+				}
+			}
+			ya[r] = sw * (y[i] - ybar)
+		}
+		s.qr.factorBlock(t)
+	}
+	s.r1 = growFloats(s.r1, q0*q0)
+	s.uy = growFloats(s.uy, q0)
+	clear(s.r1)
+	for c := range q0 {
+		col := s.r1[c*q0 : c*q0+c+1]
+		for i := range col {
+			col[i] = s.qr.rAt(i, c)
+		}
+		nj := nrm2(col)
+		floats.Scale(1/nj, col)
+		s.scale[cand[c]] *= nj
+		s.uy[c] = s.qr.rAt(c, q0)
+	}
 }
 
-// factor fills and factorises columns cols with Dgeqp3 and returns the
-// numerical rank: the number of leading |R_kk| > tol·|R_00|.
-func (s *lsSolver) factor(cols []int, tol float64) int {
-	s.fill(cols)
-	nu, q := len(s.used), len(cols)
-	s.piv = make([]int, q)
-	for k := range s.piv {
-		s.piv[k] = -1
+// factorSmall factorises R₁ with column pivoting and returns the numerical
+// rank, the number of leading |R_kk| > tol·|R_00|. If that is below the
+// number of candidate columns it chooses the estimable columns in design
+// order and factorises those alone. It sets s.cols.
+func (s *lsSolver) factorSmall(tol float64) (int, error) {
+	q0 := s.q0
+	copy(s.pq.reset(q0, q0), s.r1)
+	s.pq.factor()
+	rank := s.pq.rank(tol)
+	sel := s.ib[:0]
+	if rank < q0 {
+		// Prefer dropping later columns: choose the estimable set in
+		// design order, then factorise that set alone.
+		sel = s.selectInOrder(tol)
+		if len(sel) != rank {
+			// Rare disagreement on a borderline column: trust the
+			// pivoted factorisation.
+			sel = append(sel[:0], s.pq.piv[:rank]...)
+			sortInts(sel)
+		}
+		a := s.pq.reset(q0, len(sel))
+		for c, k := range sel {
+			copy(a[c*q0:c*q0+q0], s.r1[k*q0:k*q0+q0])
+		}
+		s.pq.factor()
+		if r := s.pq.rank(tol); r != len(sel) {
+			// Cannot happen in exact arithmetic; keep what is left.
+			return 0, &ConditionError{Cond: math.Inf(1)}
+		}
+		rank = len(sel)
+	} else {
+		for c := range q0 {
+			sel = append(sel, c)
+		}
 	}
-	s.tau = make([]float64, min(nu, q))
-	g := blas64.General{Rows: nu, Cols: q, Stride: q, Data: s.a}
-	var wq [1]float64
-	lapack64.Geqp3(g, s.piv, s.tau, wq[:], -1)
-	lw := max(int(wq[0]), 3*q+1)
-	if cap(s.work) < lw {
-		s.work = make([]float64, lw)
+	s.ib = sel
+	for _, k := range sel {
+		s.cols = append(s.cols, s.cand[k])
 	}
-	lapack64.Geqp3(g, s.piv, s.tau, s.work[:lw], lw)
-	r00 := math.Abs(s.a[0])
-	rank := 0
-	for k := range min(nu, q) {
-		if math.Abs(s.a[k*q+k]) > tol*r00 {
-			rank++
+	s.pq.applyQT(s.uy)
+	return rank, nil
+}
+
+// rank returns the number of leading |R_kk| > tol·|R_00|.
+func (f *pivQR) rank(tol float64) int {
+	r00 := math.Abs(f.rAt(0, 0))
+	k := 0
+	for c := range min(f.rows, f.cols) {
+		if math.Abs(f.rAt(c, c)) > tol*r00 {
+			k++
 		} else {
 			break
 		}
 	}
-	return rank
+	return k
 }
 
-// selectInOrder picks, in design order, the columns of cols not in the
-// span of the columns kept before them (distance above tol, columns having
-// unit norm), by classical Gram–Schmidt with reorthogonalisation.
-func (s *lsSolver) selectInOrder(cols []int, tol float64) []int {
-	s.fill(cols)
-	nu, q := len(s.used), len(cols)
-	basis := make([][]float64, 0, q)
+// selectInOrder picks, in order, the candidate columns (as indices into
+// s.cand) not in the span of the columns kept before them (distance above
+// tol, columns having unit norm), by classical Gram–Schmidt with
+// reorthogonalisation on the columns of R₁, whose lengths and angles are
+// those of the design columns.
+func (s *lsSolver) selectInOrder(tol float64) []int {
+	q0 := s.q0
+	basis := make([]float64, 0, q0*q0)
 	var sel []int
-	v := make([]float64, nu)
-	for c, j := range cols {
-		for k := range nu {
-			v[k] = s.a[k*q+c]
-		}
+	v := make([]float64, q0)
+	for c := range q0 {
+		copy(v, s.r1[c*q0:c*q0+q0])
 		for range 2 {
-			for _, b := range basis {
-				d := blas64.Dot(vec(b), vec(v))
-				blas64.Axpy(-d, vec(b), vec(v))
+			for b := 0; b < len(basis); b += q0 {
+				u := basis[b : b+q0]
+				floats.AddScaled(v, -floats.Dot(u, v), u)
 			}
 		}
-		nv := blas64.Nrm2(vec(v))
-		if nv > tol {
-			b := make([]float64, nu)
-			for k := range nu {
-				b[k] = v[k] / nv
+		if nv := nrm2(v); nv > tol {
+			for _, x := range v {
+				basis = append(basis, x/nv)
 			}
-			basis = append(basis, b)
-			sel = append(sel, j)
+			sel = append(sel, c)
 		}
 	}
 	return sel
 }
-
-func vec(v []float64) blas64.Vector { return blas64.Vector{N: len(v), Data: v, Inc: 1} }
 
 func sortInts(v []int) {
 	for i := 1; i < len(v); i++ {
@@ -532,19 +537,93 @@ func sortInts(v []int) {
 	}
 }
 
-// rTri returns the rank×rank upper triangle R of the factorisation.
-func (s *lsSolver) rTri() blas64.Triangular {
+// invertR computes R⁻¹ into s.rinv and returns the 1-norm condition
+// number ‖R‖₁‖R⁻¹‖₁.
+func (s *lsSolver) invertR() float64 {
 	q := len(s.cols)
-	return blas64.Triangular{Uplo: blas.Upper, Diag: blas.NonUnit, N: q, Stride: q, Data: s.a}
+	s.rinv = growFloats(s.rinv, q*q)
+	u := s.rinv
+	clear(u)
+	var nr, nu float64
+	for j := range q {
+		var sr float64
+		for i := 0; i <= j; i++ {
+			sr += math.Abs(s.pq.rAt(i, j))
+		}
+		nr = max(nr, sr)
+		uj := u[j*q : j*q+q]
+		uj[j] = 1 / s.pq.rAt(j, j)
+		for i := j - 1; i >= 0; i-- {
+			var sum float64
+			for l := i + 1; l <= j; l++ {
+				sum += s.pq.rAt(i, l) * uj[l]
+			}
+			uj[i] = -sum / s.pq.rAt(i, i)
+		}
+		var su float64
+		for i := 0; i <= j; i++ {
+			su += math.Abs(uj[i])
+		}
+		nu = max(nu, su)
+	}
+	return nr * nu
 }
 
-// condition estimates the 1-norm condition number of R.
-func (s *lsSolver) condition() float64 {
+// solveR overwrites d (length q) with R⁻¹d.
+func (s *lsSolver) solveR(d []float64) {
 	q := len(s.cols)
-	work := make([]float64, 3*q)
-	iwork := make([]int, q)
-	rc := lapack64.Trcon(lapack.MaxColumnSum, s.rTri(), work, iwork)
-	return 1 / rc
+	for i := q - 1; i >= 0; i-- {
+		v := d[i]
+		for j := i + 1; j < q; j++ {
+			v -= s.pq.rAt(i, j) * d[j]
+		}
+		d[i] = v / s.pq.rAt(i, i)
+	}
+}
+
+// solveRT overwrites h (length q) with R⁻ᵀh.
+func (s *lsSolver) solveRT(h []float64) {
+	q := len(s.cols)
+	for i := range q {
+		col := s.pq.a[i*s.pq.rows : i*s.pq.rows+i]
+		v := h[i]
+		for j, r := range col {
+			v -= r * h[j]
+		}
+		h[i] = v / s.pq.rAt(i, i)
+	}
+}
+
+// applyQT overwrites v (length nu) with Qᵀv for the whole factorisation.
+func (s *lsSolver) applyQT(v []float64) {
+	s.qr.applyQT(v)
+	s.pq.applyQT(v[:s.q0])
+}
+
+// applyQ overwrites v (length nu) with Qv.
+func (s *lsSolver) applyQ(v []float64) {
+	s.pq.applyQ(v[:s.q0])
+	s.qr.applyQ(v)
+}
+
+// solveFast writes the coefficients of the plain QR solution into beta
+// (design order), from the outcome transformed with the design.
+func (s *lsSolver) solveFast(beta []float64) {
+	q, p := len(s.cols), s.p
+	d := growFloats(s.f1, max(q, p))
+	s.f1 = d
+	d = d[:q]
+	copy(d, s.uy[:q])
+	s.solveR(d)
+	g := growFloats(s.f2, q)
+	s.f2 = g
+	for c, k := range s.piv() {
+		g[k] = d[c]
+	}
+	s.tApply(beta, g)
+	if s.icpt >= 0 {
+		beta[s.icpt] += s.ybar / s.icptVal
+	}
 }
 
 // tApply maps equilibrated coordinates g (indexed like s.cols) to design
@@ -588,7 +667,7 @@ func (s *lsSolver) tTransApply(dst []float64, g []float64) {
 // steps computes the residuals of the system in double-double arithmetic
 // and solves for the correction with the same factorisation.
 func (s *lsSolver) solveAug(yb, c []float64, beta, r []float64, iters int) {
-	nu, q, p := len(s.used), len(s.cols), s.p
+	nu, q, p := s.nu, len(s.cols), s.p
 	f := make([]float64, nu)
 	g := make([]float64, p)
 	gq := make([]float64, q)
@@ -598,13 +677,12 @@ func (s *lsSolver) solveAug(yb, c []float64, beta, r []float64, iters int) {
 	needR := iters > 0
 	for it := 0; it <= iters; it++ {
 		if it == 0 {
-			for k, i := range s.used {
+			for k := range nu {
+				i, sw := s.row(k)
 				if yb == nil {
 					f[k] = 0
-				} else if s.sw == nil {
-					f[k] = yb[i]
 				} else {
-					f[k] = s.sw[k] * yb[i]
+					f[k] = sw * yb[i]
 				}
 			}
 			for j := range g {
@@ -642,59 +720,27 @@ func (s *lsSolver) solveAug(yb, c []float64, beta, r []float64, iters int) {
 // corr solves [I A; Aᵀ 0][dr; dg] = [f; gq] with A = Q R P' the current
 // factorisation (gq and dg in s.cols order). dr overwrites f when needR.
 func (s *lsSolver) corr(f, gq, h, dg []float64, needR bool) {
-	nu, q := len(s.used), len(s.cols)
+	q := len(s.cols)
+	piv := s.piv()
 	// h = R⁻ᵀ P' gq.
 	for k := range q {
-		h[k] = gq[s.piv[k]]
+		h[k] = gq[piv[k]]
 	}
-	blas64.Trsv(blas.Trans, s.rTri(), vec(h))
+	s.solveRT(h)
 	// u = Qᵀ f.
-	s.applyQ(blas.Trans, f)
+	s.applyQT(f)
 	// dgp = R⁻¹ (u[:q] − h).
 	d := make([]float64, q)
 	for k := range q {
 		d[k] = f[k] - h[k]
 	}
-	blas64.Trsv(blas.NoTrans, s.rTri(), vec(d))
+	s.solveR(d)
 	for k := range q {
-		dg[s.piv[k]] = d[k]
+		dg[piv[k]] = d[k]
 	}
 	if needR {
 		copy(f[:q], h)
-		s.applyQ(blas.NoTrans, f)
-	}
-	_ = nu
-}
-
-// applyQ overwrites v (length len(used)) with Q v or Qᵀ v, applying the
-// Householder reflectors H_k = I − τ_k u_k u_kᵀ stored below the diagonal
-// of s.a (LAPACK layout, u_k[k] = 1).
-func (s *lsSolver) applyQ(trans blas.Transpose, v []float64) {
-	nu, q := len(s.used), len(s.cols)
-	a := s.a
-	apply := func(k int) {
-		tau := s.tau[k]
-		if tau == 0 {
-			return
-		}
-		d := v[k]
-		for i := k + 1; i < nu; i++ {
-			d += a[i*q+k] * v[i]
-		}
-		d *= tau
-		v[k] -= d
-		for i := k + 1; i < nu; i++ {
-			v[i] -= d * a[i*q+k]
-		}
-	}
-	if trans == blas.Trans {
-		for k := range q {
-			apply(k)
-		}
-		return
-	}
-	for k := q - 1; k >= 0; k-- {
-		apply(k)
+		s.applyQ(f)
 	}
 }
 
@@ -708,7 +754,8 @@ func (s *lsSolver) augResidual(yb, c, beta, r, f, g []float64) {
 			gacc[j].hi = c[j]
 		}
 	}
-	for k, i := range s.used {
+	for k := range s.nu {
+		i, sw := s.row(k)
 		row := s.x[i*p : i*p+p]
 		var e ddAcc
 		if yb != nil {
@@ -718,7 +765,7 @@ func (s *lsSolver) augResidual(yb, c, beta, r, f, g []float64) {
 			e.addProd(-row[j], beta[j])
 		}
 		rk := r[k]
-		if s.sw == nil {
+		if s.w == nil {
 			e.add(-rk)
 			f[k] = e.hi + e.lo
 			for _, j := range s.cols {
@@ -726,7 +773,6 @@ func (s *lsSolver) augResidual(yb, c, beta, r, f, g []float64) {
 			}
 			continue
 		}
-		sw := s.sw[k]
 		var fw ddAcc
 		fw.addProd(sw, e.hi)
 		fw.add(sw * e.lo)
@@ -744,6 +790,101 @@ func (s *lsSolver) augResidual(yb, c, beta, r, f, g []float64) {
 	}
 }
 
+// residuals writes y − Xβ for every row into res.resid and sets res.rss
+// and res.tss, with the residuals accumulated in double-double arithmetic
+// when exact, or when the plain ones turn out small next to the outcome
+// (cancellation, R² near 1), and with fused multiply-adds otherwise. The
+// sums of squares are accumulated in double-double arithmetic.
+func (s *lsSolver) residuals(res *lsFit, beta []float64, exact bool) {
+	p, x, y := s.p, s.x, s.y
+	q := len(s.cols)
+	bc := growFloats(s.f3, q)
+	s.f3 = bc
+	for c, j := range s.cols {
+		bc[c] = beta[j]
+	}
+	cols := s.cols
+	dst := res.resid
+	if !exact {
+		for i := range s.n {
+			row := x[i*p : i*p+p]
+			e := y[i]
+			for c, j := range cols {
+				e = math.FMA(-row[j], bc[c], e)
+			}
+			dst[i] = e
+		}
+		var ss, yy float64
+		for k := range s.nu {
+			i, sw := s.row(k)
+			e, v := sw*dst[i], sw*y[i]
+			ss += e * e
+			yy += v * v
+		}
+		exact = ss < 1e-4*yy
+	}
+	if exact {
+		for i := range s.n {
+			row := x[i*p : i*p+p]
+			acc := ddAcc{hi: y[i]}
+			for c, j := range cols {
+				acc.addProd(-row[j], bc[c])
+			}
+			dst[i] = acc.hi + acc.lo
+		}
+	}
+	var rss, tss ddAcc
+	var cy float64
+	ybar := s.ybar
+	for k := range s.nu {
+		i, _ := s.row(k)
+		wi := s.wt(k)
+		e := dst[i]
+		d := y[i] - ybar
+		rss.addProd(wi*e, e)
+		tss.addProd(wi*d, d)
+		cy += wi * d
+	}
+	res.rss = rss.hi + rss.lo
+	if s.icpt >= 0 {
+		// Corrected two-pass: remove what is left of the mean.
+		tss.add(-cy * cy / s.sumW)
+	}
+	res.tss = tss.hi + tss.lo
+}
+
+// toDesign writes T P G Pᵀ Tᵀ into out (p×p, row-major) at the estimable
+// rows and columns, for G q×q symmetric, row-major, in pivoted order.
+func (s *lsSolver) toDesign(out, gp []float64) {
+	p, q := s.p, len(s.cols)
+	piv := s.piv()
+	gq := make([]float64, q*q) // in s.cols order
+	for a := range q {
+		for b := range q {
+			gq[piv[a]*q+piv[b]] = gp[a*q+b]
+		}
+	}
+	tmp := make([]float64, q*p) // row c: column c of T G, in design coordinates
+	gcol := make([]float64, q)
+	col := make([]float64, p)
+	for c := range q {
+		for a := range q {
+			gcol[a] = gq[a*q+c]
+		}
+		s.tApply(col, gcol)
+		copy(tmp[c*p:], col)
+	}
+	for _, i := range s.cols {
+		for c := range q {
+			gcol[c] = tmp[c*p+i]
+		}
+		s.tApply(col, gcol)
+		for _, j := range s.cols {
+			out[i*p+j] = col[j]
+		}
+	}
+}
+
 // unscaledCov returns (XᵀWX)⁻¹ over the estimable columns (NaN elsewhere),
 // p×p row-major. With refine, each column is refined through the augmented
 // system; otherwise it is T P R⁻¹R⁻ᵀ Pᵀ Tᵀ.
@@ -756,19 +897,15 @@ func (s *lsSolver) unscaledCov(refine bool) []float64 {
 	if q == 0 {
 		return out
 	}
-	col := make([]float64, p)
 	if refine {
-		nu := len(s.used)
+		col := make([]float64, p)
 		e := make([]float64, p)
-		r := make([]float64, nu)
+		r := make([]float64, s.nu)
 		for _, j := range s.cols {
-			for k := range e {
-				e[k], col[k] = 0, 0
-			}
+			clear(e)
+			clear(col)
 			e[j] = -1
-			for k := range r {
-				r[k] = 0
-			}
+			clear(r)
 			s.solveAug(nil, e, col, r, refineIters)
 			for _, i := range s.cols {
 				out[i*p+j] = col[i]
@@ -783,49 +920,19 @@ func (s *lsSolver) unscaledCov(refine bool) []float64 {
 		}
 		return out
 	}
-	// Rinv: R⁻¹ (upper), then G = Rinv Rinvᵀ in pivoted order.
-	rinv := make([]float64, q*q)
-	for k := range q {
-		rinv[k*q+k] = 1
-	}
-	blas64.Trsm(blas.Left, blas.NoTrans, 1, s.rTri(), blas64.General{Rows: q, Cols: q, Stride: q, Data: rinv})
-	gq := make([]float64, q*q) // in s.cols order
+	// G = R⁻¹R⁻ᵀ in pivoted order.
+	u := s.rinv
+	g := make([]float64, q*q)
 	for a := range q {
 		for b := a; b < q; b++ {
 			var sum float64
 			for k := b; k < q; k++ {
-				sum += rinv[a*q+k] * rinv[b*q+k]
+				sum += u[k*q+a] * u[k*q+b]
 			}
-			ia, ib := s.piv[a], s.piv[b]
-			gq[ia*q+ib], gq[ib*q+ia] = sum, sum
+			g[a*q+b], g[b*q+a] = sum, sum
 		}
 	}
-	// C = T G Tᵀ: apply T to the columns, then to the rows.
-	tmp := make([]float64, q*p) // row c (cols order) = T applied to G row? build columns
-	gcol := make([]float64, q)
-	for c := range q {
-		for a := range q {
-			gcol[a] = gq[a*q+c]
-		}
-		for k := range col {
-			col[k] = 0
-		}
-		s.tApply(col, gcol) // column c of T G, in design coordinates
-		copy(tmp[c*p:], col)
-	}
-	// tmp[c][i] = (T G)[i][c]; C[i][·] = T applied to row i of (T G).
-	for _, i := range s.cols {
-		for c := range q {
-			gcol[c] = tmp[c*p+i]
-		}
-		for k := range col {
-			col[k] = 0
-		}
-		s.tApply(col, gcol)
-		for _, j := range s.cols {
-			out[i*p+j] = col[j]
-		}
-	}
+	s.toDesign(out, g)
 	return out
 }
 
@@ -843,32 +950,31 @@ func (s *lsSolver) sandwich(res *lsFit) {
 	if q == 0 {
 		return
 	}
-	delta := 0.0
-	switch s.spec.Cov {
-	case HC2:
-		delta = 1
-	case HC3:
-		delta = 2
-	}
+	kind := s.spec.Cov
+	piv := s.piv()
 	meat := make([]float64, q*q) // pivoted order, upper triangle
 	z := make([]float64, q)
+	a := make([]float64, q)
+	jc := make([]int, q)
+	mc := make([]float64, q)
 	inv := make([]float64, q)
-	for k := range q {
-		inv[k] = 1 / s.scale[s.cols[s.piv[k]]]
+	for c := range q {
+		j := s.cols[piv[c]]
+		jc[c], mc[c], inv[c] = j, s.mean[j], 1/s.scale[j]
 	}
-	tri := s.rTri()
-	for k, i := range s.used {
+	u := s.rinv
+	for k := range s.nu {
+		i, sw := s.row(k)
 		row := s.x[i*p : i*p+p]
-		sw := 1.0
-		if s.sw != nil {
-			sw = s.sw[k]
+		for c, j := range jc {
+			a[c] = sw * (row[j] - mc[c]) * inv[c]
 		}
+		// z = R⁻ᵀ a = (R⁻¹)ᵀ a: z_c = Σ_{l ≤ c} U[l][c] a_l.
+		var h float64
 		for c := range q {
-			j := s.cols[s.piv[c]]
-			z[c] = sw * (row[j] - s.mean[j]) * inv[c]
+			z[c] = floats.Dot(u[c*q:c*q+c+1], a[:c+1])
+			h += z[c] * z[c]
 		}
-		blas64.Trsv(blas.Trans, tri, vec(z))
-		h := blas64.Dot(vec(z), vec(z))
 		wi := sw * sw
 		v := wi
 		if s.spec.Freq {
@@ -876,9 +982,12 @@ func (s *lsSolver) sandwich(res *lsFit) {
 			v = 1
 		}
 		e := res.resid[i]
-		om := v * e * e / math.Pow(1-h, delta)
-		if delta == 0 {
-			om = v * e * e
+		om := v * e * e
+		switch kind {
+		case HC2:
+			om /= 1 - h
+		case HC3:
+			om /= (1 - h) * (1 - h)
 		}
 		for a := range q {
 			za := om * z[a]
@@ -892,48 +1001,38 @@ func (s *lsSolver) sandwich(res *lsFit) {
 			meat[b*q+a] = meat[a*q+b]
 		}
 	}
-	// Cov_γ (pivoted) = R⁻¹ M R⁻ᵀ.
-	mg := blas64.General{Rows: q, Cols: q, Stride: q, Data: meat}
-	blas64.Trsm(blas.Left, blas.NoTrans, 1, tri, mg)
-	blas64.Trsm(blas.Right, blas.Trans, 1, tri, mg)
-	if s.spec.Cov == HC1 {
+	// Cov_γ (pivoted) = R⁻¹ M R⁻ᵀ = U M Uᵀ.
+	um := make([]float64, q*q)
+	for r := range q {
+		for c := range q {
+			var sum float64
+			for l := r; l < q; l++ {
+				sum += u[l*q+r] * meat[l*q+c]
+			}
+			um[r*q+c] = sum
+		}
+	}
+	cg := make([]float64, q*q)
+	for r := range q {
+		for c := r; c < q; c++ {
+			var sum float64
+			for l := c; l < q; l++ {
+				sum += um[r*q+l] * u[l*q+c]
+			}
+			cg[r*q+c], cg[c*q+r] = sum, sum
+		}
+	}
+	if kind == HC1 {
 		df := res.nobs - float64(q)
 		f := res.nobs / df
 		if df <= 0 {
 			f = math.NaN()
 		}
-		for k := range meat {
-			meat[k] *= f
+		for k := range cg {
+			cg[k] *= f
 		}
 	}
-	// Unpivot into s.cols order, then apply T on both sides.
-	gq := make([]float64, q*q)
-	for a := range q {
-		for b := range q {
-			gq[s.piv[a]*q+s.piv[b]] = meat[a*q+b]
-		}
-	}
-	col := make([]float64, p)
-	gcol := make([]float64, q)
-	tmp := make([]float64, q*p)
-	for c := range q {
-		for a := range q {
-			gcol[a] = gq[a*q+c]
-		}
-		clear(col)
-		s.tApply(col, gcol)
-		copy(tmp[c*p:], col)
-	}
-	for _, i := range s.cols {
-		for c := range q {
-			gcol[c] = tmp[c*p+i]
-		}
-		clear(col)
-		s.tApply(col, gcol)
-		for _, j := range s.cols {
-			res.cov[i*p+j] = col[j]
-		}
-	}
+	s.toDesign(res.cov, cg)
 }
 
 // ddAcc is a double-double accumulator (hi + lo, |lo| ≤ ulp(hi)/2).
@@ -966,5 +1065,3 @@ func (d *ddAcc) addProd(a, b float64) {
 	d.hi = s + e
 	d.lo = e - (d.hi - s)
 }
-
-var _ = errors.New
