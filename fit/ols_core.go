@@ -276,15 +276,13 @@ func (s *lsSolver) scan() error {
 	x0 := growFloats(s.f0, p)
 	s1 := growFloats(s.f1, p)
 	s2 := growFloats(s.f2, p)
-	raw := growFloats(s.f3, p)
-	s.f0, s.f1, s.f2, s.f3 = x0, s1, s2, raw
+	s.f0, s.f1, s.f2 = x0, s1, s2
 	if cap(s.nc) < p {
 		s.nc = make([]bool, p)
 	}
 	nc := s.nc[:p]
 	clear(s1)
 	clear(s2)
-	clear(raw)
 	clear(nc)
 	clear(x0)
 	var y0 float64
@@ -296,39 +294,52 @@ func (s *lsSolver) scan() error {
 	s.sw = s.sw[:0]
 	var sumW, sy, sumLogW float64
 	for i := range n {
-		row := x[i*p : i*p+p]
-		for j, v := range row {
-			if v-v != 0 {
-				return &DataError{Row: i + 1, Column: j + 1, Value: v, Err: badValue(v)}
+		row := x[i*p:][:p]
+		_, _, _, _ = x0[len(row)-1], s1[len(row)-1], s2[len(row)-1], nc[len(row)-1]
+		yi := y[i]
+		wi := 1.0
+		if w != nil {
+			wi = w[i]
+		}
+		// v·0 is 0 for finite v and NaN otherwise; NaN ≠ 0.
+		if bad := yi*0 + wi*0; bad != 0 || wi <= 0 {
+			if err := s.checkRow(i); err != nil {
+				return err
+			}
+			if wi == 0 {
+				continue
 			}
 		}
-		yi := y[i]
-		if yi-yi != 0 {
-			return &DataError{Row: i + 1, Name: "outcome", Value: yi, Err: badValue(yi)}
-		}
+		var bad float64
 		if w == nil {
-			sumW++
-			sy += yi - y0
 			for j, v := range row {
 				d := v - x0[j]
+				bad += v * 0
 				s1[j] += d
 				s2[j] += d * d
-				raw[j] += v * v
 				if d != 0 {
 					nc[j] = true
 				}
 			}
+			if bad != 0 {
+				return s.checkRow(i)
+			}
+			sumW++
+			sy += yi - y0
 			continue
 		}
-		wi := w[i]
-		if wi-wi != 0 {
-			return &DataError{Row: i + 1, Name: "weights", Value: wi, Err: badValue(wi)}
+		for j, v := range row {
+			d := v - x0[j]
+			bad += v * 0
+			wd := wi * d
+			s1[j] += wd
+			s2[j] += wd * d
+			if d != 0 {
+				nc[j] = true
+			}
 		}
-		if wi < 0 {
-			return &DataError{Row: i + 1, Name: "weights", Value: wi, Err: fmt.Errorf("negative weight: %w", ErrBadValue)}
-		}
-		if wi == 0 {
-			continue
+		if bad != 0 {
+			return s.checkRow(i)
 		}
 		s.used = append(s.used, i)
 		s.sw = append(s.sw, math.Sqrt(wi))
@@ -337,16 +348,6 @@ func (s *lsSolver) scan() error {
 		}
 		sumW += wi
 		sy += wi * (yi - y0)
-		for j, v := range row {
-			d := v - x0[j]
-			wd := wi * d
-			s1[j] += wd
-			s2[j] += wd * d
-			raw[j] += wi * v * v
-			if d != 0 {
-				nc[j] = true
-			}
-		}
 	}
 	if w == nil {
 		s.nu = n
@@ -373,7 +374,9 @@ func (s *lsSolver) scan() error {
 		s.ybar = y0 + sy/sumW
 	}
 	for j := range p {
-		rawNorm := math.Sqrt(raw[j])
+		// Σ w x² from the shifted sums; its relative error is at most
+		// about rows·ε, ample for the near-constant test and as a scale.
+		rawNorm := math.Sqrt(max(s2[j]+x0[j]*(2*s1[j]+x0[j]*sumW), 0))
 		switch {
 		case s.icpt < 0 || j == s.icpt:
 			s.mean[j], s.scale[j] = 0, rawNorm
@@ -386,6 +389,30 @@ func (s *lsSolver) scan() error {
 			if s.scale[j] <= 8*epsilon*rawNorm {
 				s.scale[j] = 0 // constant up to rounding
 			}
+		}
+	}
+	return nil
+}
+
+// checkRow returns the error for the first bad value of row i (design
+// columns, then outcome, then weight), or nil.
+func (s *lsSolver) checkRow(i int) error {
+	p := s.p
+	for j, v := range s.x[i*p : i*p+p] {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return &DataError{Row: i + 1, Column: j + 1, Value: v, Err: badValue(v)}
+		}
+	}
+	if v := s.y[i]; math.IsNaN(v) || math.IsInf(v, 0) {
+		return &DataError{Row: i + 1, Name: "outcome", Value: v, Err: badValue(v)}
+	}
+	if s.w != nil {
+		v := s.w[i]
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return &DataError{Row: i + 1, Name: "weights", Value: v, Err: badValue(v)}
+		}
+		if v < 0 {
+			return &DataError{Row: i + 1, Name: "weights", Value: v, Err: fmt.Errorf("negative weight: %w", ErrBadValue)}
 		}
 	}
 	return nil
@@ -791,66 +818,85 @@ func (s *lsSolver) augResidual(yb, c, beta, r, f, g []float64) {
 }
 
 // residuals writes y − Xβ for every row into res.resid and sets res.rss
-// and res.tss, with the residuals accumulated in double-double arithmetic
+// and res.tss. The residuals are accumulated in double-double arithmetic
 // when exact, or when the plain ones turn out small next to the outcome
-// (cancellation, R² near 1), and with fused multiply-adds otherwise. The
-// sums of squares are accumulated in double-double arithmetic.
+// (cancellation, R² near 1), and with fused multiply-adds otherwise.
+// Not-estimable coefficients are zero in beta, so every column can take
+// part. The sums of squares are summed in float64 over runs of sumRun
+// rows and the run totals in double-double arithmetic.
 func (s *lsSolver) residuals(res *lsFit, beta []float64, exact bool) {
-	p, x, y := s.p, s.x, s.y
-	q := len(s.cols)
-	bc := growFloats(s.f3, q)
-	s.f3 = bc
-	for c, j := range s.cols {
-		bc[c] = beta[j]
-	}
-	cols := s.cols
-	dst := res.resid
+	p, x, y, dst := s.p, s.x, s.y, res.resid
 	if !exact {
 		for i := range s.n {
-			row := x[i*p : i*p+p]
+			row := x[i*p:][:p]
+			b := beta[:len(row)]
 			e := y[i]
-			for c, j := range cols {
-				e = math.FMA(-row[j], bc[c], e)
+			for j, v := range row {
+				e = math.FMA(-v, b[j], e)
 			}
 			dst[i] = e
 		}
-		var ss, yy float64
-		for k := range s.nu {
-			i, sw := s.row(k)
-			e, v := sw*dst[i], sw*y[i]
-			ss += e * e
-			yy += v * v
-		}
-		exact = ss < 1e-4*yy
+		rss, _, yy := s.sums(res)
+		exact = rss < 1e-4*yy
 	}
 	if exact {
 		for i := range s.n {
-			row := x[i*p : i*p+p]
+			row := x[i*p:][:p]
+			b := beta[:len(row)]
 			acc := ddAcc{hi: y[i]}
-			for c, j := range cols {
-				acc.addProd(-row[j], bc[c])
+			for j, v := range row {
+				acc.addProd(-v, b[j])
 			}
 			dst[i] = acc.hi + acc.lo
 		}
+		s.sums(res)
 	}
-	var rss, tss ddAcc
-	var cy float64
-	ybar := s.ybar
-	for k := range s.nu {
-		i, _ := s.row(k)
-		wi := s.wt(k)
-		e := dst[i]
-		d := y[i] - ybar
-		rss.addProd(wi*e, e)
-		tss.addProd(wi*d, d)
-		cy += wi * d
+}
+
+// sumRun is the number of rows summed in plain float64 before the run
+// total goes into a double-double accumulator.
+const sumRun = 4
+
+// sums sets res.rss = Σ w e² and res.tss = Σ w (y − ȳ)² over the rows
+// used, from the residuals in res.resid, and also returns Σ w y².
+func (s *lsSolver) sums(res *lsFit) (rss, tss, yy float64) {
+	y, e, ybar := s.y, res.resid, s.ybar
+	var ar, at ddAcc
+	var cy, ay float64
+	for k0 := 0; k0 < s.nu; k0 += sumRun {
+		var r, t, c, q float64
+		k1 := min(k0+sumRun, s.nu)
+		if s.w == nil {
+			for i := k0; i < k1; i++ {
+				ei, d := e[i], y[i]-ybar
+				r += ei * ei
+				t += d * d
+				c += d
+				q += y[i] * y[i]
+			}
+		} else {
+			for k := k0; k < k1; k++ {
+				i := s.used[k]
+				wi := s.w[i]
+				ei, d := e[i], y[i]-ybar
+				r += wi * ei * ei
+				t += wi * d * d
+				c += wi * d
+				q += wi * y[i] * y[i]
+			}
+		}
+		ar.add(r)
+		at.add(t)
+		cy += c
+		ay += q
 	}
-	res.rss = rss.hi + rss.lo
 	if s.icpt >= 0 {
 		// Corrected two-pass: remove what is left of the mean.
-		tss.add(-cy * cy / s.sumW)
+		at.add(-cy * cy / s.sumW)
 	}
-	res.tss = tss.hi + tss.lo
+	res.rss = ar.hi + ar.lo
+	res.tss = at.hi + at.lo
+	return res.rss, res.tss, ay
 }
 
 // toDesign writes T P G Pᵀ Tᵀ into out (p×p, row-major) at the estimable
