@@ -51,10 +51,12 @@ type CountsFunc func(r int, dst []int32)
 // Columns are standardised first (see [Standardization]) and each
 // replicate's equilibrated cross-product matrix is factorised by Cholesky.
 // A replicate whose matrix has a column with no weight, breaks down, or has
-// an estimated 1-norm condition number above CondLimit, and a replicate
-// with a count above 255, is refitted by the QR path (OLS on that
-// replicate), so it gets exactly the QR path's coefficients and
-// not-estimable status; Fallback reports which. Columns that are not
+// an estimated 1-norm condition number above CondLimit, a replicate with a
+// count above 255, and one with fewer rows used than the design has
+// columns (distinct rows with a positive count when weights == nil, as
+// OLS with frequency weights counts them), is refitted by the QR path (OLS
+// on that replicate), so it gets exactly the QR path's coefficients,
+// not-estimable status or error (ErrTooFewRows); Fallback reports which. Columns that are not
 // estimable on the whole data are not estimable in any replicate and are
 // left out of the fast path. Replicates solved by Cholesky agree with the
 // QR path to about CondLimit·2⁻⁵² relative.
@@ -471,7 +473,7 @@ func (e *batchEngine) runBlocks() {
 					}
 					dst[i*blockxp.Tile+lane] = uint8(c)
 				}
-				over[rr] = big
+				over[rr] = big || e.fewRows(buf)
 			}
 		})
 		// 2. Cross-products, tiles shared out in contiguous runs.
@@ -501,6 +503,30 @@ func (e *batchEngine) runBlocks() {
 			e.outOfBag(counts8, bstd, r0, nr, tiles)
 		}
 	}
+}
+
+// fewRows reports whether the replicate with counts c has fewer rows used
+// than the design has columns, so that the QR path must decide whether it
+// can be fitted at all: OLS with frequency weights (weights == nil) counts
+// the distinct rows with a positive count, OLS on the materialised
+// replicate (precision weights) every copy of a row with positive weight.
+func (e *batchEngine) fewRows(c []int32) bool {
+	p := e.src.p
+	nu := 0
+	if e.w == nil {
+		for _, ci := range c {
+			if ci != 0 {
+				nu++
+			}
+		}
+		return nu < p
+	}
+	for i, ci := range c {
+		if e.w[i] > 0 {
+			nu += int(ci)
+		}
+	}
+	return nu < p
 }
 
 func (e *batchEngine) store(r int, f *repFit) {

@@ -95,6 +95,8 @@ type Keeper interface {
 type keepBase struct {
 	name string
 	busy atomic.Bool
+	// builtin says which built-in Keeper this is, for the batched path.
+	builtin builtinKind
 	// call runs the callback for r, stores its outcome in the slot and
 	// returns the stored error.
 	call func(ctx context.Context, r *Replicate, slot any) error
@@ -111,6 +113,16 @@ type keepBase struct {
 	// storeFull moves the slot's outcome into the full-data storage.
 	storeFull func(slot any)
 }
+
+// builtinKind names the built-in Keepers whose values the batched
+// least-squares path can produce without a fitted model.
+type builtinKind uint8
+
+const (
+	userKeeper builtinKind = iota
+	coefficientsKeeper
+	metricsKeeper
+)
 
 // slot is one replicate's outcome of one callback.
 type slot[T any] struct {

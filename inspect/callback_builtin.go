@@ -19,7 +19,9 @@ import (
 // estimable rather than dropping them. A replicate that made a column the
 // full-data fit did not have fails with an error naming it.
 func KeepCoefficients() *Kept[[]fit.Coefficient] {
-	return Keep("coefficients", coefficients)
+	k := Keep("coefficients", coefficients)
+	k.b.builtin = coefficientsKeeper
+	return k
 }
 
 func coefficients(_ context.Context, r *Replicate) ([]fit.Coefficient, error) {
@@ -65,13 +67,15 @@ func coefficients(_ context.Context, r *Replicate) ([]fit.Coefficient, error) {
 // that R2 as not estimable. A replicate with no out-of-bag rows fails with
 // an error saying so.
 func KeepMetrics() *Kept[Metrics] {
-	return Keep("metrics", func(_ context.Context, r *Replicate) (Metrics, error) {
+	k := Keep("metrics", func(_ context.Context, r *Replicate) (Metrics, error) {
 		m, err := Measure(r.Outcome, r.Predicted)
 		if err != nil && errors.Is(err, ErrNoVariance) {
 			return m, nil
 		}
 		return m, err
 	})
+	k.b.builtin = metricsKeeper
+	return k
 }
 
 // KeepOutOfBag returns a Keeper of every replicate's out-of-bag

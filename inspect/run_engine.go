@@ -9,6 +9,7 @@ import (
 // on the caller's goroutine. It is shared by Run, Compare and Predict.
 type engine struct {
 	total       int
+	first       int // replicates before first were delivered already, in order
 	workers     int // ≥ 1
 	buffer      int // reorder buffer when ordered
 	ordered     bool
@@ -32,7 +33,7 @@ func (e *engine) run(ctx context.Context, newWork func() workFunc, newRecord fun
 	defer cancel()
 
 	var (
-		delivered  int
+		delivered  = e.first
 		cause      error
 		pnc        *PanicError
 		stopping   bool
@@ -86,7 +87,7 @@ func (e *engine) run(ctx context.Context, newWork func() workFunc, newRecord fun
 	if e.workers == 1 {
 		work := newWork()
 		rec := newRecord()
-		for r := 0; r < e.total && !stopping; r++ {
+		for r := e.first; r < e.total && !stopping; r++ {
 			if err := ctx.Err(); err != nil {
 				stop(err)
 				break
@@ -118,7 +119,7 @@ func (e *engine) run(ctx context.Context, newWork func() workFunc, newRecord fun
 			window = e.buffer
 			pending = make([]*Record, window)
 		}
-		next, inflight, nextOut := 0, 0, 0
+		next, inflight, nextOut := e.first, 0, e.first
 		ctxDone := ctx.Done()
 		var staged *Record
 		for {
