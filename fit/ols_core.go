@@ -436,6 +436,7 @@ func (s *lsSolver) factorTall() {
 		}
 	}
 	mean, ybar := s.mean[:p], s.ybar
+	inv = inv[:p]
 	all := q0 == p
 	for t := range s.qr.blocks() {
 		first, rows, a := s.qr.block(t)
@@ -444,8 +445,10 @@ func (s *lsSolver) factorTall() {
 			i, sw := s.row(first + r)
 			row := x[i*p : i*p+p]
 			if all {
+				row = row[:len(mean)]
+				_ = inv[len(row)-1]
 				for j, v := range row {
-					a[j*rows+r] = sw * (v - mean[j]) * inv[j]
+					a[j*rows+r] = (v - mean[j]) * (sw * inv[j])
 				}
 			} else {
 				for c, j := range cand {
@@ -904,15 +907,20 @@ func (s *lsSolver) sums(res *lsFit) (rss, tss, yy float64) {
 func (s *lsSolver) toDesign(out, gp []float64) {
 	p, q := s.p, len(s.cols)
 	piv := s.piv()
-	gq := make([]float64, q*q) // in s.cols order
+	buf := growFloats(s.f3, 2*q*q+q*p+q+p)
+	s.f3 = buf
+	gq := buf[:q*q] // in s.cols order
 	for a := range q {
 		for b := range q {
 			gq[piv[a]*q+piv[b]] = gp[a*q+b]
 		}
 	}
-	tmp := make([]float64, q*p) // row c: column c of T G, in design coordinates
-	gcol := make([]float64, q)
-	col := make([]float64, p)
+	buf = buf[q*q:]
+	tmp := buf[:q*p] // row c: column c of T G, in design coordinates
+	buf = buf[q*p:]
+	gcol := buf[:q]
+	buf = buf[q:]
+	col := buf[:p]
 	for c := range q {
 		for a := range q {
 			gcol[a] = gq[a*q+c]
@@ -968,7 +976,8 @@ func (s *lsSolver) unscaledCov(refine bool) []float64 {
 	}
 	// G = R⁻¹R⁻ᵀ in pivoted order.
 	u := s.rinv
-	g := make([]float64, q*q)
+	s.f2 = growFloats(s.f2, q*q)
+	g := s.f2
 	for a := range q {
 		for b := a; b < q; b++ {
 			var sum float64
