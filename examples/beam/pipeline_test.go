@@ -192,6 +192,54 @@ func TestPipelineMatchesSingleProcess(t *testing.T) {
 	}
 }
 
+// TestPipelineFails checks that a bad input row and a failed assertion
+// both fail the pipeline, with an error that says why.
+func TestPipelineFails(t *testing.T) {
+	spec, rows := learnTour(t)
+	data, err := os.ReadFile(tourCSV)
+	if err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.SplitN(string(data), "\n", 6)
+	bad := filepath.Join(t.TempDir(), "bad.csv")
+	// Line 4 is BC-0003; its tickets become "lots".
+	lines[3] = strings.Join(append(strings.Split(lines[3], ",")[:4], "lots"), ",")
+	if err := os.WriteFile(bad, []byte(strings.Join(lines[:5], "\n")+"\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	good, err := filepath.Abs(tourCSV)
+	if err != nil {
+		t.Fatal(err)
+	}
+	const B = 10
+	want := olsReplicates(t, spec, rows, testSeed, B)
+	want[B*len(spec.Columns)-1] *= 1 + 1e-6
+	for _, tc := range []struct {
+		name, input string
+		check       *checkFn
+		want        string
+	}{
+		{name: "bad row", input: bad, want: "row show_id=BC-0003: column tickets"},
+		{name: "assertion", input: good, check: &checkFn{Name: "perturbed", Want: want, Rows: int64(len(rows)), Tol: testTol},
+			want: "perturbed: replicate 9, price"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			p, s := beam.NewPipelineWithRoot()
+			st, err := Bootstrap(s, Config{Input: tc.input, Spec: spec, Seed: testSeed, B: B, Shards: 16})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if tc.check != nil {
+				beam.ParDo0(s, tc.check, st.Solution)
+			}
+			_, err = prism.Execute(context.Background(), p)
+			if err == nil || !strings.Contains(err.Error(), tc.want) {
+				t.Errorf("got error %v, want one containing %q", err, tc.want)
+			}
+		})
+	}
+}
+
 // checkOutputs reads the files the pipeline wrote: the coefficients file
 // must hold every replicate (to the tolerance, since it is formatted from
 // the same values the check saw), and the summary one row per coefficient
@@ -407,5 +455,41 @@ func TestUnseenWeekday(t *testing.T) {
 	}
 	if !errors.Is(err, features.ErrUnseenLevel) {
 		t.Errorf("got error %v, want one wrapping features.ErrUnseenLevel", err)
+	}
+}
+
+// TestShuffleCost checks the README's cost model against the accumulator's
+// encoding: a shard's accumulator for p columns and B replicates takes
+// 16·(B+1)·q + 16·p + 64 bytes, q = p(p+1)/2 + p + 2, i.e. 16·q bytes per
+// replicate.
+func TestShuffleCost(t *testing.T) {
+	spec, _ := learnTour(t)
+	p := len(spec.Columns)
+	q := p*(p+1)/2 + p + 2
+	for _, tc := range []struct {
+		name string
+		B    int
+	}{
+		{name: "B=1", B: 1},
+		{name: "B=200", B: 200},
+		{name: "B=1000", B: 1000},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			a, err := fit.NewAccumulator(spec.Standardization, testSeed, tc.B)
+			if err != nil {
+				t.Fatal(err)
+			}
+			b, err := encodeAccumulator(a)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if got, want := len(b), 16*(tc.B+1)*q+16*p+64; got != want {
+				t.Errorf("p=%d: got %d bytes, want %d", p, got, want)
+			}
+			back, err := decodeAccumulator(b)
+			if err != nil || back.Replicates() != tc.B {
+				t.Errorf("decode: got %v replicates, error %v; want %d", back, err, tc.B)
+			}
+		})
 	}
 }
