@@ -26,9 +26,11 @@ var (
 // used; with one, R² is centred and the F test is against the
 // intercept-only model, without one both are uncentred (against zero).
 //
-// The fit is a Householder QR factorisation with column pivoting (LAPACK
-// Dgeqp3) of the weighted design after centring (when there is an
-// intercept) and scaling every column to unit norm. The numerical rank is
+// The fit is a Householder QR factorisation with column pivoting of the
+// weighted design after centring (when there is an intercept) and scaling
+// every column to unit norm: a blocked unpivoted Householder QR of the
+// design followed by a pivoted one (Businger–Golub) of its triangle, which
+// pivots and reveals the rank as a pivoted QR of the design itself. The numerical rank is
 // the number of diagonal entries with |R_kk| > Tol·|R_00|. Columns that are
 // constant (other than the intercept), all zero, or in the span of the
 // columns before them over the rows used are not estimable: they get NaN
