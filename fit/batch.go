@@ -92,6 +92,14 @@ type Batch struct {
 	// Workers is the number of goroutines; 0 means runtime.GOMAXPROCS(0)
 	// and 1 runs on the calling goroutine.
 	Workers int
+	// Ridge, if not nil, makes every replicate a ridge fit: replicate r's
+	// coefficients are those of Ridge{Lambda: Ridge.Lambda}.FitRidge on
+	// the replicate (its rows repeated, or equivalently the counts times
+	// the weights as case weights), with each replicate standardised by
+	// its own weighted means and standard deviations as Ridge defines.
+	// StdErr and ResidSE are then NaN. The batched solve needs an
+	// intercept column; without one every replicate takes the QR path.
+	Ridge *Ridge
 }
 
 // BatchFit holds the per-replicate results of a [Batch] fit, indexed by
@@ -188,14 +196,19 @@ func (bt Batch) Fit(x mat.Matrix, y, weights []float64, B int, counts CountsFunc
 		res.OutOfBagR2 = make([]float64, B)
 	}
 	e := &batchEngine{bt: bt, x: x, src: src, y: y, w: weights, B: B, counts: counts, condLimit: condLimit, workers: workers, res: res}
-	e.kept, e.fast = e.fullDataColumns(std)
+	checkRidge(bt.Ridge)
+	if bt.Ridge != nil {
+		e.kept, e.fast = e.ridgeColumns(std)
+	} else {
+		e.kept, e.fast = e.fullDataColumns(std)
+	}
 	e.m = newStdMap(std, e.kept)
 	e.l = newLayout(len(e.kept))
 	if !e.fast {
 		e.run(B, func(r int) {
 			c := make([]int32, n)
 			e.fetch(r, c)
-			e.fallback(r, c)
+			e.fallbackAny(r, c)
 			if bt.OutOfBag {
 				e.outOfBagDirect(r, c)
 			}
@@ -343,6 +356,24 @@ func parallel(workers, n int, body func(worker int, next func() (int, bool))) {
 	}
 }
 
+// solve solves one replicate from its sums by Cholesky, reporting false
+// when it must take the QR path.
+func (e *batchEngine) solve(sums []float64, w *solveWork, out *repFit) bool {
+	if e.bt.Ridge != nil {
+		return e.m.solveRidge(e.l, sums, e.bt.Ridge.Lambda, e.condLimit, w, out)
+	}
+	return e.m.solve(e.l, sums, e.condLimit, w, out)
+}
+
+// fallbackAny fits replicate r by the QR path of its estimator.
+func (e *batchEngine) fallbackAny(r int, cbuf []int32) {
+	if e.bt.Ridge != nil {
+		e.fallbackRidge(r, cbuf)
+		return
+	}
+	e.fallback(r, cbuf)
+}
+
 // fallback fits replicate r by the QR path. cbuf, if not nil, holds its
 // counts.
 func (e *batchEngine) fallback(r int, cbuf []int32) {
@@ -485,15 +516,19 @@ func (e *batchEngine) runBlocks() {
 				r := r0 + rr
 				out := &fits[w]
 				s := sums[rr*e.l.qpad : rr*e.l.qpad+e.l.q]
-				if !over[rr] && e.m.solve(e.l, s, e.condLimit, works[w], out) {
+				if !over[rr] && e.solve(s, works[w], out) {
 					e.store(r, out)
-					if bstd != nil {
+					switch {
+					case bstd == nil:
+					case e.bt.Ridge != nil:
+						e.m.toStd(bstd[rr*e.l.k:(rr+1)*e.l.k], e.res.Coef[r*e.src.p:(r+1)*e.src.p])
+					default:
 						copy(bstd[rr*e.l.k:], works[w].b)
 					}
 					continue
 				}
 				e.fetch(r, bufs[w])
-				e.fallback(r, bufs[w])
+				e.fallbackAny(r, bufs[w])
 				if bstd != nil {
 					e.m.toStd(bstd[rr*e.l.k:(rr+1)*e.l.k], e.res.Coef[r*e.src.p:(r+1)*e.src.p])
 				}

@@ -113,6 +113,7 @@ func (m stdMap) toStd(dst, beta []float64) {
 type solveWork struct {
 	a, inv  []float64 // k×k
 	d, g, b []float64 // k
+	m       []float64 // k, allocated on first use
 }
 
 func newSolveWork(k int) *solveWork {

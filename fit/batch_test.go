@@ -343,28 +343,31 @@ func testBigFloat(t *testing.T, x *mat.Dense, y []float64) {
 	}
 }
 
-// TestBatchWorkersIdentical checks that the worker count changes no bit.
+// TestBatchWorkersIdentical checks that the worker count changes no bit,
+// for least squares and for ridge.
 func TestBatchWorkersIdentical(t *testing.T) {
 	x, y := calendarDesign(700, 5, 8, false)
 	n, _ := x.Dims()
 	counts := multinomialCounts(n, 3)
-	one, err := Batch{Workers: 1, OutOfBag: true}.Fit(x, y, nil, 37, counts)
-	if err != nil {
-		t.Fatal(err)
-	}
-	for _, w := range []int{2, 3, 8} {
-		many, err := Batch{Workers: w, OutOfBag: true}.Fit(x, y, nil, 37, counts)
+	for _, ridge := range []*Ridge{nil, {Lambda: 3}} {
+		one, err := Batch{Workers: 1, OutOfBag: true, Ridge: ridge}.Fit(x, y, nil, 37, counts)
 		if err != nil {
 			t.Fatal(err)
 		}
-		for i := range one.Coef {
-			if math.Float64bits(one.Coef[i]) != math.Float64bits(many.Coef[i]) || math.Float64bits(one.StdErr[i]) != math.Float64bits(many.StdErr[i]) {
-				t.Fatalf("workers %d: coefficient %d got %v (se %v), want %v (se %v)", w, i, many.Coef[i], many.StdErr[i], one.Coef[i], one.StdErr[i])
+		for _, w := range []int{2, 3, 8} {
+			many, err := Batch{Workers: w, OutOfBag: true, Ridge: ridge}.Fit(x, y, nil, 37, counts)
+			if err != nil {
+				t.Fatal(err)
 			}
-		}
-		for r := range one.OutOfBagRMSE {
-			if math.Float64bits(one.OutOfBagRMSE[r]) != math.Float64bits(many.OutOfBagRMSE[r]) {
-				t.Fatalf("workers %d: OOB RMSE %d got %v, want %v", w, r, many.OutOfBagRMSE[r], one.OutOfBagRMSE[r])
+			for i := range one.Coef {
+				if math.Float64bits(one.Coef[i]) != math.Float64bits(many.Coef[i]) || math.Float64bits(one.StdErr[i]) != math.Float64bits(many.StdErr[i]) {
+					t.Fatalf("ridge %v, workers %d: coefficient %d got %v (se %v), want %v (se %v)", ridge != nil, w, i, many.Coef[i], many.StdErr[i], one.Coef[i], one.StdErr[i])
+				}
+			}
+			for r := range one.OutOfBagRMSE {
+				if math.Float64bits(one.OutOfBagRMSE[r]) != math.Float64bits(many.OutOfBagRMSE[r]) || math.Float64bits(one.OutOfBagR2[r]) != math.Float64bits(many.OutOfBagR2[r]) {
+					t.Fatalf("ridge %v, workers %d: OOB RMSE, R² %d got %v, %v, want %v, %v", ridge != nil, w, r, many.OutOfBagRMSE[r], many.OutOfBagR2[r], one.OutOfBagRMSE[r], one.OutOfBagR2[r])
+				}
 			}
 		}
 	}

@@ -52,7 +52,8 @@
 //   - Sharing: a [Model] (learned feature set and fitted model) is
 //     immutable and safe for concurrent prediction by many goroutines.
 //   - Batched path: when the feature set learns nothing from the rows, the
-//     estimator is fit.OLS with classical standard errors, the data has no
+//     estimator is fit.OLS with classical standard errors or fit.Ridge,
+//     the data has no
 //     case weights, the splits are bootstrap counts and only
 //     [KeepCoefficients] and [KeepMetrics] are kept, Run gets every
 //     replicate's values from one batched least-squares computation

@@ -26,7 +26,8 @@ type batchRun struct {
 // set; the data has no case weights; the feature set learns nothing from
 // the rows (features.Adapts is false), so every replicate's design is the
 // full-data design's rows; the estimator, after FrequencyWeighted, is
-// fit.OLS with frequency weights and classical standard errors; every
+// fit.OLS with frequency weights and classical standard errors, or
+// fit.Ridge with frequency weights; every
 // Keeper is KeepCoefficients or KeepMetrics; and the plan's first split
 // has counts, with Out its rows of count zero (later splits are checked as
 // they are drawn).
@@ -39,22 +40,29 @@ func (ru *runner) batchPath(fs features.Builder, opts *Options, plan resample.Pl
 			return nil
 		}
 	}
-	var ols fit.OLS
+	var bt fit.Batch
 	switch f := ru.freq.(type) {
 	case fit.OLS:
-		ols = f
-	case *fit.OLS:
-		if f == nil {
+		if !batchOLS(f, ru.full.Predictor) {
 			return nil
 		}
-		ols = *f
+		bt.Tol = f.Tol
+	case *fit.OLS:
+		if f == nil || !batchOLS(*f, ru.full.Predictor) {
+			return nil
+		}
+		bt.Tol = f.Tol
+	case fit.Ridge:
+		if !batchRidge(f, ru.full.Predictor) {
+			return nil
+		}
+		bt.Ridge = &fit.Ridge{Lambda: f.Lambda}
+	case *fit.Ridge:
+		if f == nil || !batchRidge(*f, ru.full.Predictor) {
+			return nil
+		}
+		bt.Ridge = &fit.Ridge{Lambda: f.Lambda}
 	default:
-		return nil
-	}
-	if ols.Weights != fit.Frequency || ols.Cov != fit.Classical {
-		return nil
-	}
-	if _, ok := ru.full.Predictor.(*fit.LinearModel); !ok {
 		return nil
 	}
 	sp := plan.Split(0, nil)
@@ -62,13 +70,26 @@ func (ru *runner) batchPath(fs features.Builder, opts *Options, plan resample.Pl
 		return nil
 	}
 	br := &batchRun{ru: ru, plan: plan, total: plan.Len()}
-	br.bt = fit.Batch{Tol: ols.Tol, Workers: workers}
+	bt.Workers = workers
+	br.bt = bt
 	for _, kb := range ru.keepers {
 		if kb.builtin == metricsKeeper {
 			br.bt.OutOfBag = true
 		}
 	}
 	return br
+}
+
+// batchOLS reports whether Batch reproduces o's replicate fits.
+func batchOLS(o fit.OLS, full fit.Predictor) bool {
+	_, ok := full.(*fit.LinearModel)
+	return ok && o.Weights == fit.Frequency && o.Cov == fit.Classical
+}
+
+// batchRidge reports whether Batch reproduces r's replicate fits.
+func batchRidge(r fit.Ridge, full fit.Predictor) bool {
+	_, ok := full.(*fit.RidgeFit)
+	return ok && r.Weights == fit.Frequency
 }
 
 // zeroOut reports whether sp has counts for n rows and its Out are exactly

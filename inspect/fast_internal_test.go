@@ -43,6 +43,7 @@ func TestBatchPathRule(t *testing.T) {
 		{name: "poisson bootstrap", fs: fixed, opts: Options{Fitter: fit.OLS{}, Scheme: resample.Poisson{B: 20}}, batch: true},
 		{name: "Refit", fs: fixed, opts: Options{Fitter: fit.OLS{}, Scheme: boot, Refit: true}},
 		{name: "case weights", fs: fixed, opts: Options{Fitter: fit.OLS{}, Scheme: boot}, wts: weights},
+		{name: "ridge", fs: fixed, opts: Options{Fitter: fit.Ridge{Lambda: 2}, Scheme: boot}, batch: true},
 		{name: "HC3 standard errors", fs: fixed, opts: Options{Fitter: fit.OLS{Cov: fit.HC3}, Scheme: boot}},
 		{name: "GLM", fs: fixed, opts: Options{Fitter: fit.GLM{Family: fit.Gamma}, Scheme: boot}},
 		{name: "indicator levels learned per replicate", fs: withLevels, opts: Options{Fitter: fit.OLS{}, Scheme: boot}},

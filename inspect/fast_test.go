@@ -54,10 +54,17 @@ func runPath(t *testing.T, d inspect.Data, fs features.Builder, opts inspect.Opt
 	return pr
 }
 
-// rel is |got − want| relative to max(|want|, floor).
+// rel is |got − want| relative to max(|want|, floor), a NaN floor read as
+// 0; it is 0 when both are NaN and +Inf when only one is.
 func rel(got, want, floor float64) float64 {
-	if math.IsNaN(got) && math.IsNaN(want) {
+	switch gn, wn := math.IsNaN(got), math.IsNaN(want); {
+	case gn && wn:
 		return 0
+	case gn || wn:
+		return math.Inf(1)
+	}
+	if math.IsNaN(floor) {
+		floor = 0
 	}
 	return math.Abs(got-want) / max(math.Abs(want), floor)
 }
@@ -109,20 +116,26 @@ func TestRunBatchedAgreesWithRefit(t *testing.T) {
 		name            string
 		n, B            int
 		scheme          resample.Scheme
-		wantNotEstim    bool // some replicate misses the holiday
-		wantFailed      bool // some replicate fails
-		wantMetricsFail bool // some replicate has no out-of-bag rows
+		fitter          fit.Fitter // nil means fit.OLS{}
+		wantNotEstim    bool       // some replicate misses the holiday
+		wantFailed      bool       // some replicate fails
+		wantMetricsFail bool       // some replicate has no out-of-bag rows
 	}{
 		{name: "ordinary bootstrap", n: 150, B: 300, scheme: resample.Bootstrap{B: 300}, wantNotEstim: true},
 		{name: "few rows", n: 9, B: 400, scheme: resample.Bootstrap{B: 400}, wantFailed: true, wantNotEstim: true},
 		{name: "poisson bootstrap", n: 80, B: 200, scheme: resample.Poisson{B: 200}, wantNotEstim: true},
 		{name: "k-fold", n: 100, B: 5, scheme: resample.KFold{K: 5}},
+		{name: "ridge", n: 150, B: 300, scheme: resample.Bootstrap{B: 300}, fitter: fit.Ridge{Lambda: 4}, wantNotEstim: true},
+		{name: "ridge, few rows", n: 9, B: 200, scheme: resample.Bootstrap{B: 200}, fitter: &fit.Ridge{Lambda: 0.5}, wantNotEstim: true},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
 			d := realData(t, tt.n, 4)
 			fs := fastDesign(t)
-			opts := inspect.Options{Fitter: fit.OLS{}, Scheme: tt.scheme, Seed: 21, Workers: 2}
+			opts := inspect.Options{Fitter: tt.fitter, Scheme: tt.scheme, Seed: 21, Workers: 2}
+			if opts.Fitter == nil {
+				opts.Fitter = fit.OLS{}
+			}
 			fast := runPath(t, d, fs, opts, false)
 			slow := runPath(t, d, fs, opts, true)
 			if fast.res.Finished != slow.res.Finished || fast.res.Failed != slow.res.Failed {
@@ -160,6 +173,12 @@ func TestRunBatchedAgreesWithRefit(t *testing.T) {
 						continue
 					}
 					maxCoef = max(maxCoef, rel(g.Estimate, w.Estimate, w.StdErr), rel(g.StdErr, w.StdErr, 0))
+					if math.IsNaN(w.StdErr) != math.IsNaN(g.StdErr) {
+						t.Fatalf("replicate %d column %d: got standard error %v, want %v", r, j, g.StdErr, w.StdErr)
+					}
+				}
+				if slow.met.Errs()[r] != nil {
+					continue
 				}
 				gm, wm := fast.met.Values()[r], slow.met.Values()[r]
 				if gm.N != wm.N {

@@ -269,8 +269,8 @@ func (m *Model) Predict(dst []float64, dates []time.Time, extra *features.Table)
 //     ([features.Intercept], a [features.Set] without Indicator parts,
 //     holiday.Columns and Joins of these), so every replicate's learned
 //     design is the full-data design's rows;
-//   - opts.Fitter is fit.OLS (or *fit.OLS) with Cov Classical, read as
-//     frequency-weighted, as above;
+//   - opts.Fitter is fit.OLS with Cov Classical, or fit.Ridge (or a
+//     pointer to either), read as frequency-weighted, as above;
 //   - every Keeper is [KeepCoefficients] or [KeepMetrics];
 //   - the splits have Counts and their Out rows are exactly the rows of
 //     count zero (the bootstrap schemes, jackknife and k-fold; not the
