@@ -17,20 +17,6 @@ import (
 	"github.com/kalends/kalends/resample"
 )
 
-// ones is the one-column Builder of the README: a column of ones, the
-// intercept that fit.OLS does not add by itself.
-type ones struct{}
-
-func (ones) Learn([]time.Time) (features.Encoder, error) { return ones{}, nil }
-func (ones) Names() []string                             { return []string{"intercept"} }
-func (ones) Encode(dst *features.Table, dates []time.Time) error {
-	col := make([]float64, len(dates))
-	for i := range col {
-		col[i] = 1
-	}
-	return dst.Append("intercept", col)
-}
-
 func Example_tourFeatures() {
 	dates := []time.Time{
 		time.Date(2024, 12, 24, 0, 0, 0, 0, time.UTC),
@@ -137,7 +123,7 @@ func Example_tourInspect() {
 	for _, h := range x.Column(0) {
 		d.Outcome = append(d.Outcome, 30+8*h+2*g.NormFloat64())
 	}
-	design := features.Join(ones{}, bankHoliday)
+	design := features.Join(features.Intercept{}, bankHoliday)
 	coef := inspect.KeepCoefficients()
 	_, err := inspect.Run(context.Background(), d, design,
 		inspect.Options{Fitter: fit.OLS{}, Scheme: resample.Bootstrap{B: 999}, Seed: 7}, coef)

@@ -130,21 +130,6 @@ func parseFlags(args []string, stderr io.Writer) (config, error) {
 	return c, nil
 }
 
-// intercept is a features.Builder of one column of ones (fit.OLS adds none).
-type intercept struct{}
-
-type ones struct{}
-
-func (intercept) Learn([]time.Time) (features.Encoder, error) { return ones{}, nil }
-func (ones) Names() []string                                  { return []string{"intercept"} }
-func (ones) Encode(dst *features.Table, dates []time.Time) error {
-	col := make([]float64, len(dates))
-	for i := range col {
-		col[i] = 1
-	}
-	return dst.Append("intercept", col)
-}
-
 func run(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	c, err := parseFlags(args, stderr)
 	if err != nil {
@@ -395,7 +380,7 @@ func buildDesign(c config, dates []time.Time) (features.Builder, error) {
 			}
 		}
 	}
-	builders := []features.Builder{intercept{}, set}
+	builders := []features.Builder{features.Intercept{}, set}
 
 	var cals []holiday.Calendar
 	if c.calendar != "" {
@@ -455,7 +440,7 @@ func indicatorRows(x *features.Table, name string) (int, bool) {
 			return 0, false
 		}
 	}
-	return k, name != "intercept"
+	return k, name != features.InterceptName
 }
 
 // fullDesign is the design of all rows: learned columns, then the extra ones.
@@ -516,7 +501,7 @@ func writeOutputs(dir string, full *features.Table, sums []inspect.Summary, stat
 	var hs []inspect.Statistic
 	var hsum []inspect.Summary
 	for _, s := range sums {
-		if k, ok := indicatorRows(full, s.Name); s.Name != "intercept" && (!ok || k >= 5) {
+		if k, ok := indicatorRows(full, s.Name); s.Name != features.InterceptName && (!ok || k >= 5) {
 			hs, hsum = append(hs, byName[s.Name]), append(hsum, s)
 		}
 	}

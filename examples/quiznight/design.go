@@ -7,24 +7,6 @@ import (
 	"github.com/kalends/kalends/holiday"
 )
 
-// intercept is a features.Builder of one column of ones: fit.OLS fits the
-// design as given and adds no intercept of its own.
-type intercept struct{}
-
-type interceptEncoder struct{}
-
-func (intercept) Learn([]time.Time) (features.Encoder, error) { return interceptEncoder{}, nil }
-
-func (interceptEncoder) Names() []string { return []string{"intercept"} }
-
-func (interceptEncoder) Encode(dst *features.Table, dates []time.Time) error {
-	ones := make([]float64, len(dates))
-	for i := range ones {
-		ones[i] = 1
-	}
-	return dst.Append("intercept", ones)
-}
-
 // quizDesign is the model fitted to the broadcasts: an intercept, the
 // annual season as the sine and cosine of the month, a trend in years since
 // 1 January 2011, and an indicator for the day off of each holiday of gb.
@@ -32,7 +14,7 @@ func (interceptEncoder) Encode(dst *features.Table, dates []time.Time) error {
 // effects are the coefficients it estimates.
 func quizDesign(gb holiday.Calendar) features.Builder {
 	return features.Join(
-		intercept{},
+		features.Intercept{},
 		features.Set{
 			Parts: []features.Spec{{Part: features.Month, Encoding: features.Cyclic}},
 			Trend: &features.Trend{Origin: time.Date(firstYear, 1, 1, 0, 0, 0, 0, time.UTC), Unit: features.Years},

@@ -96,22 +96,6 @@ func isDayOff(c holiday.Calendar, t time.Time) bool {
 	return false
 }
 
-// intercept is a features.Builder of one column of ones (fit.OLS, and so
-// Huber, adds none of its own).
-type intercept struct{}
-
-type ones struct{}
-
-func (intercept) Learn([]time.Time) (features.Encoder, error) { return ones{}, nil }
-func (ones) Names() []string                                  { return []string{"intercept"} }
-func (ones) Encode(dst *features.Table, dates []time.Time) error {
-	col := make([]float64, len(dates))
-	for i := range col {
-		col[i] = 1
-	}
-	return dst.Append("intercept", col)
-}
-
 // robustness is what our callback keeps from every replicate.
 type robustness struct {
 	Scale, DownWeighted float64
@@ -134,7 +118,7 @@ func run(args []string, stdout, stderr io.Writer) error {
 		return err
 	}
 	d, faults := phoneIn(gb)
-	design := features.Join(intercept{},
+	design := features.Join(features.Intercept{},
 		features.Set{
 			Parts: []features.Spec{{Part: features.Weekday, Encoding: features.Indicator, Reference: "Monday"}},
 			Trend: &features.Trend{Origin: time.Date(2023, 1, 1, 0, 0, 0, 0, time.UTC), Unit: features.Years},
