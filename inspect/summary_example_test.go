@@ -93,7 +93,7 @@ func ExampleTable_WriteTo() {
 		inspect.Config{Level: 0.9, Methods: []inspect.Method{inspect.Percentile, inspect.BCa}})
 	inspect.Table{s}.WriteTo(os.Stdout)
 	// Output:
-	// statistic  method      level   lower   upper  estimate       bias  std.error     used  failed  notes
-	// mean       percentile    90%  417.17  472.58    442.75  -0.017684       17.1  999/999       0
-	// mean       BCa           90%  421.12  483.56    442.75  -0.017684       17.1  999/999       0
+	// statistic  method      level   lower   upper  estimate       bias  std.error     used  failed  not estimable  notes
+	// mean       percentile    90%  417.17  472.58    442.75  -0.017684       17.1  999/999       0              0
+	// mean       BCa           90%  421.12  483.56    442.75  -0.017684       17.1  999/999       0              0
 }

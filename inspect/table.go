@@ -138,12 +138,16 @@ func (t Table) WriteJSON(w io.Writer) error {
 // WriteTo writes the table as aligned plain text for a terminal: one line
 // per row with the main columns, a notes column pointing to numbered
 // footnotes that spell out warnings and errors. Numbers are shown to 5
-// significant digits. It implements [io.WriterTo].
+// significant digits. The failed and not-estimable replicates are counted
+// in columns of their own, as in the CSV and JSON: a replicate whose fit
+// failed says something else than one that could not estimate this
+// statistic (a holiday it drew no row of, say). It implements
+// [io.WriterTo].
 //
 // The layout is pinned by a golden test but is meant for people: do not
 // parse it, use WriteCSV or WriteJSON.
 func (t Table) WriteTo(w io.Writer) (int64, error) {
-	cells := [][]string{{"statistic", "method", "level", "lower", "upper", "estimate", "bias", "std.error", "used", "failed", "notes"}}
+	cells := [][]string{{"statistic", "method", "level", "lower", "upper", "estimate", "bias", "std.error", "used", "failed", "not estimable", "notes"}}
 	var notes []string
 	for _, r := range t.rows() {
 		var refs []string
@@ -159,7 +163,7 @@ func (t Table) WriteTo(w io.Writer) (int64, error) {
 		}
 		cells = append(cells, []string{r.Statistic, r.Method, level,
 			short(r.Lower), short(r.Upper), short(r.Estimate), short(r.Bias), short(r.StdError),
-			fmt.Sprintf("%d/%d", r.Used, r.Replicates), strconv.Itoa(r.Failed + r.NotEstimable), strings.Join(refs, ",")})
+			fmt.Sprintf("%d/%d", r.Used, r.Replicates), strconv.Itoa(r.Failed), strconv.Itoa(r.NotEstimable), strings.Join(refs, ",")})
 	}
 	width := make([]int, len(cells[0]))
 	for _, row := range cells {

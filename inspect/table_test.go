@@ -44,6 +44,9 @@ func sampleTable() inspect.Table {
 				{Method: inspect.BCa, Level: 0.9, Lower: math.NaN(), Upper: math.NaN(), Used: 999,
 					Err: errors.New("inspect: BCa adjustment undefined: 0 of 999 replicates below the estimate, bias correction infinite")},
 			}},
+		{Name: "christmas_day", Estimate: 12.35, Mean: 12.4, Bias: 0.05, StdErr: 0.7, Replicates: 999, Used: 872,
+			Failed: 3, NotEstimable: 124, FailedShare: 127.0 / 999,
+			Intervals: []inspect.Interval{{Method: inspect.Percentile, Level: 0.95, Lower: 10.88, Upper: 13.69, Used: 872}}},
 	}
 }
 
@@ -85,6 +88,7 @@ func TestTableCSV(t *testing.T) {
 		{"holiday share", "percentile", "0.9", "0", "0.05", "0", "0.02", "0.02", "0.01", "999", "999", "0", "0", "400 of 999 replicates tied at the smallest value 0", ""},
 		{"holiday share", "BCa", "0.9", "", "", "0", "0.02", "0.02", "0.01", "999", "999", "0", "0", "400 of 999 replicates tied at the smallest value 0",
 			"inspect: BCa adjustment undefined: 0 of 999 replicates below the estimate, bias correction infinite"},
+		{"christmas_day", "percentile", "0.95", "10.88", "13.69", "12.35", "12.4", "0.05", "0.7", "999", "872", "3", "124", "", ""},
 	}
 	if diff := cmp.Diff(want, recs); diff != "" {
 		t.Errorf("CSV mismatch (-want +got):\n%s", diff)
@@ -100,8 +104,11 @@ func TestTableJSON(t *testing.T) {
 	if err := json.Unmarshal(buf.Bytes(), &rows); err != nil {
 		t.Fatalf("not valid JSON: %v\n%s", err, buf.String())
 	}
-	if len(rows) != 4 {
-		t.Fatalf("got %d rows, want 4", len(rows))
+	if len(rows) != 5 {
+		t.Fatalf("got %d rows, want 5", len(rows))
+	}
+	if rows[4]["failed"] != 3.0 || rows[4]["not_estimable"] != 124.0 {
+		t.Errorf("row 4: got failed %v, not_estimable %v; want 3 and 124, kept apart", rows[4]["failed"], rows[4]["not_estimable"])
 	}
 	if rows[3]["lower"] != nil || rows[3]["upper"] != nil || rows[3]["error"] == "" {
 		t.Errorf("failed interval: got lower %v upper %v error %q, want null, null and a reason", rows[3]["lower"], rows[3]["upper"], rows[3]["error"])
