@@ -243,6 +243,7 @@ type batchEngine struct {
 	workers   int
 	res       *BatchFit
 	scratch   []xpScratch // per worker, reused by every block
+	psum      []float64   // per-chunk partial sums of crossProducts
 	kept      []int
 	fast      bool
 	m         stdMap
@@ -494,17 +495,9 @@ func (e *batchEngine) runBlocks() {
 		parallel(e.workers, nr, func(w int, next func() (int, bool)) {
 			buf := bufs[w]
 			for rr, ok := next(); ok; rr, ok = next() {
-				e.fetch(r0+rr, buf)
+				e.counts(r0+rr, buf)
 				t, lane := rr/blockxp.Tile, rr%blockxp.Tile
-				dst := counts8[t*n*blockxp.Tile:]
-				big := false
-				for i, c := range buf {
-					if c > 255 {
-						big, c = true, 255
-					}
-					dst[i*blockxp.Tile+lane] = uint8(c)
-				}
-				over[rr] = big || e.fewRows(buf)
+				over[rr] = e.compress(counts8[t*n*blockxp.Tile+lane:], buf, r0+rr)
 			}
 		})
 		// 2. Cross-products, tiles shared out in contiguous runs.
@@ -538,6 +531,42 @@ func (e *batchEngine) runBlocks() {
 			e.outOfBag(counts8, bstd, r0, nr, tiles)
 		}
 	}
+}
+
+// compress writes the counts c of replicate r into dst[i*Tile] (capped at
+// 255) and reports whether the replicate must take the QR path: a count
+// above 255, or too few rows used (see fewRows). It panics on a negative
+// count.
+func (e *batchEngine) compress(dst []uint8, c []int32, r int) bool {
+	const T = blockxp.Tile
+	dst = dst[:(len(c)-1)*T+1]
+	var or int32
+	nz := 0
+	for i, ci := range c {
+		or |= ci
+		if ci != 0 {
+			nz++
+		}
+		dst[i*T] = uint8(min(uint32(ci), 255))
+	}
+	if or < 0 {
+		for i, ci := range c {
+			if ci < 0 {
+				panic(fmt.Sprintf("fit: Batch: replicate %d, row %d: negative count %d", r, i+1, ci))
+			}
+		}
+	}
+	if or > 255 {
+		for _, ci := range c {
+			if ci > 255 {
+				return true
+			}
+		}
+	}
+	if e.w == nil {
+		return nz < e.src.p
+	}
+	return e.fewRows(c)
 }
 
 // fewRows reports whether the replicate with counts c has fewer rows used
@@ -575,71 +604,97 @@ func (e *batchEngine) store(r int, f *repFit) {
 
 // xpScratch is one worker's buffers for crossProducts.
 type xpScratch struct {
-	zp, ap, z, row, u []float64
+	zp, ap, row, u []float64
+	off            []int
 }
 
-func (e *batchEngine) scratchFor(w, tiles int) *xpScratch {
+func (e *batchEngine) scratchFor(w int) *xpScratch {
 	s := &e.scratch[w]
 	if s.zp == nil {
 		const T, S = blockxp.Tile, blockxp.Strip
 		s.zp = make([]float64, e.l.qpad/S*batchRows*S)
-		s.z = make([]float64, e.l.qpad)
 		s.row = make([]float64, e.src.p)
 		s.u = make([]float64, e.l.k)
-		s.ap = make([]float64, ((tiles+e.workers-1)/e.workers)*batchRows*T)
+		s.ap = make([]float64, groupTiles*batchRows*T)
+		s.off = make([]int, e.l.q)
 	}
 	return s
 }
 
-// tileRange returns worker w's contiguous run of tiles.
-func tileRange(w, workers, tiles int) (int, int) {
-	return w * tiles / workers, (w + 1) * tiles / workers
-}
+// Work units of crossProducts: a run of chunkRows rows (16 blocks of Z)
+// times a group of groupTiles tiles of replicates. The units are fixed by
+// the data and the block, never by the number of workers.
+const (
+	chunkRows  = 16 * batchRows
+	groupTiles = 12
+)
 
 // crossProducts adds Counts·Z for the block's tiles into sums (tile t,
-// lane r at row t*4+r, stride qpad). Each worker owns a contiguous run of
-// tiles and builds its own blocks of Z, so every sum is formed in the same
-// order whatever the number of workers.
+// lane r at row t*4+r, stride qpad). Rows are cut into chunks of chunkRows
+// and tiles into groups of groupTiles; a worker takes one (chunk, group)
+// unit at a time, builds that chunk's blocks of Z once for the whole group
+// and adds into the chunk's own partial sums, which are then added up in
+// chunk order. So every sum is formed in the same order whatever the
+// number of workers.
 func (e *batchEngine) crossProducts(counts8 []uint8, sums []float64, tiles int) {
 	n, l := e.src.n, e.l
 	const T, S = blockxp.Tile, blockxp.Strip
 	strips := l.qpad / S
-	workers := min(e.workers, tiles)
-	parallel(workers, workers, func(_ int, next func() (int, bool)) {
-		for w, ok := next(); ok; w, ok = next() {
-			t0, t1 := tileRange(w, workers, tiles)
-			if t0 == t1 {
-				continue
+	chunks := (n + chunkRows - 1) / chunkRows
+	groups := (tiles + groupTiles - 1) / groupTiles
+	width := tiles * T * l.qpad
+	part := sums
+	if chunks > 1 {
+		if len(e.psum) < chunks*width {
+			e.psum = make([]float64, chunks*width)
+		}
+		part = e.psum[:chunks*width]
+		clear(part)
+	}
+	parallel(e.workers, chunks*groups, func(w int, next func() (int, bool)) {
+		sc := e.scratchFor(w)
+		zp, ap, row, u := sc.zp, sc.ap, sc.row, sc.u
+		for unit, ok := next(); ok; unit, ok = next() {
+			c, g := unit/groups, unit%groups
+			t0, t1 := g*groupTiles, min((g+1)*groupTiles, tiles)
+			dst := sums
+			if chunks > 1 {
+				dst = part[c*width : (c+1)*width]
 			}
-			sc := e.scratchFor(w, tiles)
-			zp, ap, z, row, u := sc.zp, sc.ap, sc.z, sc.row, sc.u
-			for i0 := 0; i0 < n; i0 += batchRows {
+			for i0 := c * chunkRows; i0 < min((c+1)*chunkRows, n); i0 += batchRows {
 				nb := min(batchRows, n-i0)
+				l.offsets(sc.off, nb)
 				for k := range nb {
 					i := i0 + k
 					e.src.row(i, row)
 					v := e.m.standardise(u, row, e.y[i])
-					l.fill(z, u, v, e.weight(i))
-					for s := range strips {
-						copy(zp[(s*nb+k)*S:(s*nb+k)*S+S], z[s*S:s*S+S])
-					}
+					l.fillStrips(zp[k*S:], sc.off, u, v, e.weight(i))
 				}
 				for t := t0; t < t1; t++ {
-					src := counts8[(t*n+i0)*T : (t*n+i0+nb)*T]
-					dst := ap[(t-t0)*batchRows*T : (t-t0)*batchRows*T+nb*T]
-					for j, c := range src {
-						dst[j] = float64(c)
-					}
+					blockxp.Widen(ap[(t-t0)*batchRows*T:], counts8[(t*n+i0)*T:(t*n+i0+nb)*T])
 				}
 				for s := range strips {
 					zs := zp[s*nb*S : (s+1)*nb*S]
 					for t := t0; t < t1; t++ {
-						blockxp.MulAdd(nb, ap[(t-t0)*batchRows*T:], zs, sums[t*T*l.qpad+s*S:], l.qpad)
+						blockxp.MulAdd(nb, ap[(t-t0)*batchRows*T:], zs, dst[t*T*l.qpad+s*S:], l.qpad)
 					}
 				}
 			}
 		}
 	})
+	if chunks > 1 {
+		for c := range chunks {
+			p := part[c*width : (c+1)*width]
+			for i, v := range p {
+				sums[i] += v
+			}
+		}
+	}
+}
+
+// tileRange returns worker w's contiguous run of tiles.
+func tileRange(w, workers, tiles int) (int, int) {
+	return w * tiles / workers, (w + 1) * tiles / workers
 }
 
 // outOfBag computes the out-of-bag errors of the block's replicates from

@@ -2,8 +2,10 @@ package fit
 
 import (
 	"math/rand/v2"
+	"sync"
 	"testing"
 
+	"github.com/kalends/kalends/resample"
 	"gonum.org/v1/gonum/mat"
 )
 
@@ -27,9 +29,25 @@ func batchBenchDesign(n, p int) (*mat.Dense, []float64) {
 	return mat.NewDense(n, p, data), y
 }
 
-func benchBatch(b *testing.B, n, p, reps int) {
+// planCounts adapts a resample.Bootstrap plan to a CountsFunc, as a
+// resampling run does: each call draws the replicate's split (into a
+// pooled Split) and copies its counts.
+func planCounts(tb testing.TB, n, reps int, seed uint64) CountsFunc {
+	plan, err := resample.Bootstrap{B: reps}.Plan(n, seed)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	var pool sync.Pool
+	return func(r int, dst []int32) {
+		sp, _ := pool.Get().(*resample.Split)
+		sp = plan.Split(r, sp)
+		copy(dst, sp.Counts)
+		pool.Put(sp)
+	}
+}
+
+func benchBatch(b *testing.B, n, p, reps int, counts CountsFunc) {
 	x, y := batchBenchDesign(n, p)
-	counts := multinomialCounts(n, 1)
 	b.ReportAllocs()
 	b.ResetTimer()
 	for range b.N {
@@ -47,11 +65,24 @@ func benchBatch(b *testing.B, n, p, reps int) {
 
 // BenchmarkBatchOLS100k: bootstrap OLS, n = 100,000, p = 12, B = 1,000,
 // all coefficients and standard errors kept; the time includes drawing the
-// ordinary-bootstrap counts (10⁸ draws).
-func BenchmarkBatchOLS100k(b *testing.B) { benchBatch(b, 100_000, 12, 1000) }
+// ordinary-bootstrap counts (10⁸ draws) from a resample.Bootstrap plan, as
+// in a resampling run.
+func BenchmarkBatchOLS100k(b *testing.B) {
+	benchBatch(b, 100_000, 12, 1000, planCounts(b, 100_000, 1000, 1))
+}
 
-// BenchmarkBatchOLSSmall: n = 1,000, p = 4, B = 10,000.
-func BenchmarkBatchOLSSmall(b *testing.B) { benchBatch(b, 1000, 4, 10_000) }
+// BenchmarkBatchOLS100kMultinomial is BenchmarkBatchOLS100k with counts
+// drawn one row index at a time (rng.Replicate and IntN), a slower
+// multinomial draw.
+func BenchmarkBatchOLS100kMultinomial(b *testing.B) {
+	benchBatch(b, 100_000, 12, 1000, multinomialCounts(100_000, 1))
+}
+
+// BenchmarkBatchOLSSmall: n = 1,000, p = 4, B = 10,000, counts from a
+// resample.Bootstrap plan.
+func BenchmarkBatchOLSSmall(b *testing.B) {
+	benchBatch(b, 1000, 4, 10_000, planCounts(b, 1000, 10_000, 1))
+}
 
 // BenchmarkBatchGenericSmall is the generic path on the same small data:
 // one frequency-weighted QR fit (OLS) per replicate, on two goroutines.
@@ -79,10 +110,19 @@ func BenchmarkBatchGenericSmall(b *testing.B) {
 }
 
 // BenchmarkBatchCounts100k is the cost of drawing the counts alone in
-// BenchmarkBatchOLS100k, on two goroutines.
+// BenchmarkBatchOLS100k (from the plan), on two goroutines.
 func BenchmarkBatchCounts100k(b *testing.B) {
+	benchCounts(b, planCounts(b, 100_000, 1000, 1))
+}
+
+// BenchmarkBatchCounts100kMultinomial is the same for the multinomial
+// draw of BenchmarkBatchOLS100kMultinomial.
+func BenchmarkBatchCounts100kMultinomial(b *testing.B) {
+	benchCounts(b, multinomialCounts(100_000, 1))
+}
+
+func benchCounts(b *testing.B, counts CountsFunc) {
 	const n, reps = 100_000, 1000
-	counts := multinomialCounts(n, 1)
 	for range b.N {
 		parallel(2, reps, func(_ int, next func() (int, bool)) {
 			c := make([]int32, n)

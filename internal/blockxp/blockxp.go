@@ -52,3 +52,25 @@ func mulAddGo(k int, ap, zp, c []float64, ldc int) {
 		}
 	}
 }
+
+// Widen writes src, converted to float64, into dst[:len(src)]. It panics
+// if dst is shorter than src.
+func Widen(dst []float64, src []uint8) {
+	if len(dst) < len(src) {
+		panic("blockxp: Widen: dst too short")
+	}
+	n := len(src) &^ 15
+	if n > 0 {
+		widen(dst[:n], src[:n])
+	}
+	for i := n; i < len(src); i++ {
+		dst[i] = float64(src[i])
+	}
+}
+
+func widenGo(dst []float64, src []uint8) {
+	dst = dst[:len(src)]
+	for i, c := range src {
+		dst[i] = float64(c)
+	}
+}

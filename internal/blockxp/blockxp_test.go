@@ -58,3 +58,34 @@ func TestMulAddPanics(t *testing.T) {
 	}()
 	MulAdd(2, make([]float64, 7), make([]float64, 24), make([]float64, 48), 12)
 }
+
+// TestWiden checks the byte-to-float conversion in use against float64(b)
+// for every byte value and lengths around the 16-byte step.
+func TestWiden(t *testing.T) {
+	for _, tt := range []struct {
+		name string
+		n    int
+	}{{"empty", 0}, {"short", 5}, {"one step", 16}, {"steps and tail", 37}, {"every byte", 256}, {"long", 1031}} {
+		t.Run(tt.name, func(t *testing.T) {
+			src := make([]uint8, tt.n)
+			for i := range src {
+				src[i] = uint8(i*7 + i/256)
+			}
+			dst := make([]float64, tt.n+3)
+			for i := range dst {
+				dst[i] = -1
+			}
+			Widen(dst, src)
+			for i, c := range src {
+				if dst[i] != float64(c) {
+					t.Fatalf("dst[%d] got %v, want %v", i, dst[i], float64(c))
+				}
+			}
+			for i := tt.n; i < len(dst); i++ {
+				if dst[i] != -1 {
+					t.Fatalf("dst[%d] beyond the input got %v, want it untouched (-1)", i, dst[i])
+				}
+			}
+		})
+	}
+}

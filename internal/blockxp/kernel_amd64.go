@@ -41,3 +41,16 @@ func mulAdd(k int, ap, zp, c []float64, ldc int) {
 	_ = c[3*ldc+Strip-1]
 	mulAdd4x12(k, &ap[0], &zp[0], &c[0], ldc)
 }
+
+//go:noescape
+func widen16(n int, dst *float64, src *uint8)
+
+// widen converts len(src) bytes, a multiple of 16, with AVX2 when it can.
+func widen(dst []float64, src []uint8) {
+	if !hasFMA {
+		widenGo(dst, src)
+		return
+	}
+	_ = dst[len(src)-1]
+	widen16(len(src)/16, &dst[0], &src[0])
+}

@@ -97,3 +97,29 @@ TEXT ·xgetbv0(SB), NOSPLIT, $0-8
 	MOVL AX, lo+0(FP)
 	MOVL DX, hi+4(FP)
 	RET
+
+// func widen16(n int, dst *float64, src *uint8)
+// Converts 16·n bytes to float64.
+TEXT ·widen16(SB), NOSPLIT, $0-24
+	MOVQ n+0(FP), CX
+	MOVQ dst+8(FP), DI
+	MOVQ src+16(FP), SI
+wloop:
+	VPMOVZXBD 0(SI), X0
+	VPMOVZXBD 4(SI), X1
+	VPMOVZXBD 8(SI), X2
+	VPMOVZXBD 12(SI), X3
+	VCVTDQ2PD X0, Y0
+	VCVTDQ2PD X1, Y1
+	VCVTDQ2PD X2, Y2
+	VCVTDQ2PD X3, Y3
+	VMOVUPD Y0, 0(DI)
+	VMOVUPD Y1, 32(DI)
+	VMOVUPD Y2, 64(DI)
+	VMOVUPD Y3, 96(DI)
+	ADDQ $16, SI
+	ADDQ $128, DI
+	DECQ CX
+	JNZ wloop
+	VZEROUPPER
+	RET

@@ -5,3 +5,5 @@ package blockxp
 const hasFMA = false
 
 func mulAdd(k int, ap, zp, c []float64, ldc int) { mulAddGo(k, ap, zp, c, ldc) }
+
+func widen(dst []float64, src []uint8) { widenGo(dst, src) }
