@@ -125,6 +125,10 @@ var (
 // estimate (solid line) and the chosen interval of its summary (dashed
 // lines). sums[i] must be the [Summary] of stats[i]. Failed and
 // not-estimable replicates are left out and counted in the panel's title.
+// Titles and axis labels are wrapped to fit their panel, breaking long
+// names after "_", "-", ".", "/" or "=" and, where a word has no such
+// place, cutting it short with an ellipsis; tick labels are thinned until
+// they do not touch.
 //
 // It returns an error if a statistic's estimate is not finite or it has no
 // usable replicate. It panics if len(sums) != len(stats).
@@ -146,9 +150,13 @@ func Histograms(stats []Statistic, sums []Summary, opts ...PlotOption) (*Figure,
 	if f.width == 0 {
 		f.width, f.height = vg.Length(cols)*8*vg.Centimeter, vg.Length(rows)*7*vg.Centimeter+vg.Centimeter
 	}
+	// Titles and axis labels are wrapped to the panel's width, less a
+	// margin for the shift plot.Align may give a panel to line up its axes
+	// with the other panels'.
+	tileW := (f.width - gridTiles.PadLeft - gridTiles.PadRight - vg.Length(cols-1)*gridTiles.PadX) / vg.Length(cols)
 	var marked string
 	for i := range stats {
-		p, name, err := histogram(stats[i], sums[i], c)
+		p, name, err := histogram(stats[i], sums[i], c, tileW-3*vg.Millimeter)
 		if err != nil {
 			return nil, err
 		}
@@ -169,8 +177,9 @@ func Histograms(stats []Statistic, sums []Summary, opts ...PlotOption) (*Figure,
 	return f, nil
 }
 
-// histogram returns one panel and the description of its marked interval.
-func histogram(st Statistic, s Summary, c plotConfig) (*plot.Plot, string, error) {
+// histogram returns one panel, its title and x label wrapped to width, and
+// the description of its marked interval.
+func histogram(st Statistic, s Summary, c plotConfig, width vg.Length) (*plot.Plot, string, error) {
 	name := nameOr(st.Name)
 	if !finite(st.Estimate) {
 		return nil, "", fmt.Errorf("inspect: Histograms: %s: %w (%v)", name, ErrEstimate, st.Estimate)
@@ -200,7 +209,9 @@ func histogram(st Statistic, s Summary, c plotConfig) (*plot.Plot, string, error
 	}
 
 	p := plot.New()
-	p.X.Tick.Marker, p.Y.Tick.Marker = niceTicks{}, niceTicks{}
+	// The data area is the panel less about 1.5 cm for the y axis.
+	p.X.Tick.Marker = niceTicks{room: width - 15*vg.Millimeter, sty: p.X.Tick.Label}
+	p.Y.Tick.Marker = niceTicks{}
 	p.Title.TextStyle.Font.Size = vg.Points(11)
 	p.X.Label.Text = c.label("value")
 	p.Y.Label.Text = "replicates"
@@ -245,7 +256,10 @@ func histogram(st Statistic, s Summary, c plotConfig) (*plot.Plot, string, error
 			}
 		}
 	}
-	p.Title.Text = title
+	p.Title.Text = wrapText(p.Title.TextStyle, title, width)
+	// The x label is centred under the data, right of the y axis: allow
+	// 1.5 cm for the y label and its tick labels.
+	p.X.Label.Text = wrapText(p.X.Label.TextStyle, p.X.Label.Text, width-15*vg.Millimeter)
 	p.Y.Min = 0
 	return p, desc, nil
 }
@@ -300,8 +314,13 @@ func ObservedPredicted(observed, predicted []float64, opts ...PlotOption) (*Figu
 	pad := (hi - lo) * 0.04
 	lo, hi = lo-pad, hi+pad
 
+	width := c.width
+	if width == 0 {
+		width = 13 * vg.Centimeter
+	}
 	p := plot.New()
-	p.X.Tick.Marker, p.Y.Tick.Marker = niceTicks{}, niceTicks{}
+	p.X.Tick.Marker = niceTicks{room: width - gridTiles.PadLeft - gridTiles.PadRight - 15*vg.Millimeter, sty: p.X.Tick.Label}
+	p.Y.Tick.Marker = niceTicks{}
 	p.X.Label.Text = c.label("observed")
 	p.Y.Label.Text = c.label("out-of-bag predicted")
 	p.X.Min, p.X.Max, p.Y.Min, p.Y.Max = lo, hi, lo, hi
@@ -330,38 +349,109 @@ func ObservedPredicted(observed, predicted []float64, opts ...PlotOption) (*Figu
 }
 
 // niceTicks labels about five round values (1, 2 or 5 times a power of
-// ten) and puts unlabelled minor ticks between them.
-type niceTicks struct{}
+// ten) and puts unlabelled minor ticks between them. When room is
+// positive, the labels, measured with sty, are spread over an axis that
+// long, and the step grows (1, 2, 5, 10, ...) until neighbouring labels
+// are at least half an em apart; if that would leave fewer than two
+// labels, every other label of the last step is left blank, or all but
+// the middle one.
+type niceTicks struct {
+	room vg.Length
+	sty  text.Style
+}
 
-func (niceTicks) Ticks(lo, hi float64) []plot.Tick {
+func (nt niceTicks) Ticks(lo, hi float64) []plot.Tick {
 	if !(hi > lo) {
 		return plot.DefaultTicks{}.Ticks(lo, hi)
 	}
 	raw := (hi - lo) / 5
 	mag := math.Pow(10, math.Floor(math.Log10(raw)))
-	step := mag
-	for _, m := range []float64{2, 5, 10} {
-		if raw/mag > m*0.75 {
-			step = m * mag
+	m := 1.0
+	for _, next := range []float64{2, 5, 10} {
+		if raw/mag > next*0.75 {
+			m = next
 		}
+	}
+	if m == 10 {
+		m, mag = 1, mag*10
+	}
+	labels := func(step float64) []plot.Tick {
+		var ticks []plot.Tick
+		for k := math.Ceil(lo / step); k*step <= hi+step*1e-9; k++ {
+			v := k * step
+			if math.Abs(v) < step*1e-9 {
+				v = 0
+			}
+			ticks = append(ticks, plot.Tick{Value: v, Label: strconv.FormatFloat(v, 'g', 6, 64)})
+		}
+		return ticks
+	}
+	step := m * mag
+	major := labels(step)
+	for range 12 {
+		if nt.room <= 0 || nt.spaced(major, step/(hi-lo)*float64(nt.room)) {
+			break
+		}
+		nm, nmag := m, mag
+		switch m {
+		case 1:
+			nm = 2
+		case 2:
+			nm = 5
+		default:
+			nm, nmag = 1, mag*10
+		}
+		next := labels(nm * nmag)
+		if len(next) < 2 {
+			// A wider step would leave one label or none: keep every
+			// other label of this one instead, or only the middle one if
+			// even those crowd each other.
+			var kept []plot.Tick
+			for i := range major {
+				if i%2 == 0 {
+					kept = append(kept, major[i])
+				}
+			}
+			keep := func(i int) bool { return i%2 == 0 }
+			if !nt.spaced(kept, 2*step/(hi-lo)*float64(nt.room)) {
+				keep = func(i int) bool { return i == len(major)/2 }
+			}
+			for i := range major {
+				if !keep(i) {
+					major[i].Label = ""
+				}
+			}
+			break
+		}
+		m, mag, step, major = nm, nmag, nm*nmag, next
 	}
 	var ticks []plot.Tick
 	minor := step / 5
-	if m := step / mag; m == 2 || m == 20 {
+	if m == 2 {
 		minor = step / 4
 	}
 	for v := math.Ceil(lo/minor) * minor; v <= hi+minor*1e-9; v += minor {
 		ticks = append(ticks, plot.Tick{Value: v})
 	}
-	for k := math.Ceil(lo / step); k*step <= hi+step*1e-9; k++ {
-		v := k * step
-		if math.Abs(v) < step*1e-9 {
-			v = 0
-		}
-		ticks = append(ticks, plot.Tick{Value: v, Label: strconv.FormatFloat(v, 'g', 6, 64)})
-	}
-	return ticks
+	return append(ticks, major...)
 }
+
+// spaced reports whether labels centred gap apart on the axis leave at
+// least half an em between neighbours.
+func (nt niceTicks) spaced(major []plot.Tick, gap float64) bool {
+	em := float64(nt.sty.Font.Size) / 2
+	for i := 1; i < len(major); i++ {
+		need := float64(nt.sty.Width(major[i-1].Label)+nt.sty.Width(major[i].Label))/2 + em
+		if gap < need {
+			return false
+		}
+	}
+	return true
+}
+
+// gridTiles holds the padding of a figure's grid of panels.
+var gridTiles = draw.Tiles{PadX: 4 * vg.Millimeter, PadY: 4 * vg.Millimeter,
+	PadTop: 1 * vg.Millimeter, PadBottom: 2 * vg.Millimeter, PadLeft: 2 * vg.Millimeter, PadRight: 4 * vg.Millimeter}
 
 // draw renders the figure on a canvas.
 func (f *Figure) draw(c vg.CanvasSizer) {
@@ -369,13 +459,13 @@ func (f *Figure) draw(c vg.CanvasSizer) {
 	if f.title != "" {
 		sty := text.Style{Color: color.Black, Font: font.From(plot.DefaultFont, vg.Points(12)),
 			XAlign: draw.XCenter, YAlign: draw.YTop, Handler: plot.DefaultTextHandler}
-		h := sty.Height(f.title) + 3*vg.Millimeter
-		dc.FillText(sty, vg.Point{X: dc.Center().X, Y: dc.Max.Y - 1.5*vg.Millimeter}, f.title)
+		title := wrapText(sty, f.title, dc.Max.X-dc.Min.X-6*vg.Millimeter)
+		h := sty.Height(title) + 3*vg.Millimeter
+		dc.FillText(sty, vg.Point{X: dc.Center().X, Y: dc.Max.Y - 1.5*vg.Millimeter}, title)
 		dc = draw.Crop(dc, 0, 0, 0, -h)
 	}
-	tiles := draw.Tiles{Rows: len(f.panels), Cols: len(f.panels[0]),
-		PadX: 4 * vg.Millimeter, PadY: 4 * vg.Millimeter,
-		PadTop: 1 * vg.Millimeter, PadBottom: 2 * vg.Millimeter, PadLeft: 2 * vg.Millimeter, PadRight: 4 * vg.Millimeter}
+	tiles := gridTiles
+	tiles.Rows, tiles.Cols = len(f.panels), len(f.panels[0])
 	canvases := plot.Align(f.panels, tiles, dc)
 	for r := range f.panels {
 		for k, p := range f.panels[r] {
