@@ -539,14 +539,15 @@ func (e *batchEngine) runBlocks() {
 // count.
 func (e *batchEngine) compress(dst []uint8, c []int32, r int) bool {
 	const T = blockxp.Tile
+	if len(c) == 0 {
+		return e.src.p > 0
+	}
 	dst = dst[:(len(c)-1)*T+1]
 	var or int32
 	nz := 0
 	for i, ci := range c {
 		or |= ci
-		if ci != 0 {
-			nz++
-		}
+		nz += int(uint32(-ci) >> 31) // 1 for a positive count, branch-free
 		dst[i*T] = uint8(min(uint32(ci), 255))
 	}
 	if or < 0 {
@@ -604,8 +605,7 @@ func (e *batchEngine) store(r int, f *repFit) {
 
 // xpScratch is one worker's buffers for crossProducts.
 type xpScratch struct {
-	zp, ap, row, u []float64
-	off            []int
+	zp, ap, z, row, u []float64
 }
 
 func (e *batchEngine) scratchFor(w int) *xpScratch {
@@ -616,7 +616,7 @@ func (e *batchEngine) scratchFor(w int) *xpScratch {
 		s.row = make([]float64, e.src.p)
 		s.u = make([]float64, e.l.k)
 		s.ap = make([]float64, groupTiles*batchRows*T)
-		s.off = make([]int, e.l.q)
+		s.z = make([]float64, e.l.qpad) // padding stays zero
 	}
 	return s
 }
@@ -653,7 +653,7 @@ func (e *batchEngine) crossProducts(counts8 []uint8, sums []float64, tiles int) 
 	}
 	parallel(e.workers, chunks*groups, func(w int, next func() (int, bool)) {
 		sc := e.scratchFor(w)
-		zp, ap, row, u := sc.zp, sc.ap, sc.row, sc.u
+		zp, ap, z, row, u := sc.zp, sc.ap, sc.z, sc.row, sc.u
 		for unit, ok := next(); ok; unit, ok = next() {
 			c, g := unit/groups, unit%groups
 			t0, t1 := g*groupTiles, min((g+1)*groupTiles, tiles)
@@ -663,12 +663,14 @@ func (e *batchEngine) crossProducts(counts8 []uint8, sums []float64, tiles int) 
 			}
 			for i0 := c * chunkRows; i0 < min((c+1)*chunkRows, n); i0 += batchRows {
 				nb := min(batchRows, n-i0)
-				l.offsets(sc.off, nb)
 				for k := range nb {
 					i := i0 + k
 					e.src.row(i, row)
 					v := e.m.standardise(u, row, e.y[i])
-					l.fillStrips(zp[k*S:], sc.off, u, v, e.weight(i))
+					l.fill(z, u, v, e.weight(i))
+					for s := range strips {
+						*(*[S]float64)(zp[(s*nb+k)*S:]) = *(*[S]float64)(z[s*S:])
+					}
 				}
 				for t := t0; t < t1; t++ {
 					blockxp.Widen(ap[(t-t0)*batchRows*T:], counts8[(t*n+i0)*T:(t*n+i0+nb)*T])

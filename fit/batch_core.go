@@ -37,10 +37,12 @@ func (l xpLayout) fill(z, u []float64, v, w float64) {
 	t := 0
 	for a, ua := range u {
 		wa := w * ua
-		for _, ub := range u[a:] {
-			z[t] = wa * ub
-			t++
+		ub := u[a:]
+		zt := z[t : t+len(ub)]
+		for b, x := range ub {
+			zt[b] = wa * x
 		}
+		t += len(ub)
 	}
 	wv := w * v
 	for a, ua := range u {
@@ -51,41 +53,6 @@ func (l xpLayout) fill(z, u []float64, v, w float64) {
 		z[l.pp+l.k+1] = 1
 	} else {
 		z[l.pp+l.k+1] = 0
-	}
-}
-
-// offsets sets off[t] to the position of entry t of a row's z in a block
-// of nb rows packed by strips of blockxp.Strip columns, relative to the
-// row's first entry: strip t/Strip, column t%Strip.
-func (l xpLayout) offsets(off []int, nb int) {
-	const S = blockxp.Strip
-	for t := range l.q {
-		off[t] = (t/S)*nb*S + t%S
-	}
-}
-
-// fillStrips is fill writing entry t of z to zp[off[t]] (see offsets).
-// The padding entries q..qpad of the packed rows are not written.
-func (l xpLayout) fillStrips(zp []float64, off []int, u []float64, v, w float64) {
-	off = off[:l.q]
-	u = u[:l.k]
-	t := 0
-	for a, ua := range u {
-		wa := w * ua
-		for _, ub := range u[a:] {
-			zp[off[t]] = wa * ub
-			t++
-		}
-	}
-	wv := w * v
-	for a, ua := range u {
-		zp[off[l.pp+a]] = wv * ua
-	}
-	zp[off[l.pp+l.k]] = wv * v
-	if w > 0 {
-		zp[off[l.pp+l.k+1]] = 1
-	} else {
-		zp[off[l.pp+l.k+1]] = 0
 	}
 }
 
