@@ -182,7 +182,7 @@ func Histograms(stats []Statistic, sums []Summary, opts ...PlotOption) (*Figure,
 func histogram(st Statistic, s Summary, c plotConfig, width vg.Length) (*plot.Plot, string, error) {
 	name := nameOr(st.Name)
 	if !finite(st.Estimate) {
-		return nil, "", fmt.Errorf("inspect: Histograms: %s: %w (%v)", name, ErrEstimate, st.Estimate)
+		return nil, "", &estimateError{op: "inspect: Histograms: ", name: name, value: st.Estimate}
 	}
 	var vals plotter.Values
 	for r, v := range st.Values {

@@ -130,8 +130,8 @@ func TestPlotBadInput(t *testing.T) {
 	}{
 		{"estimate NaN", func() error {
 			_, err := inspect.Histograms([]inspect.Statistic{{Name: "x", Estimate: nan, Values: []float64{1, 2}}}, []inspect.Summary{s})
-			if !errors.Is(err, inspect.ErrEstimate) {
-				return errors.New("want ErrEstimate")
+			if !errors.Is(err, inspect.ErrEstimate) || !errors.Is(err, inspect.ErrNotEstimable) {
+				return errors.New("want ErrEstimate and ErrNotEstimable")
 			}
 			return err
 		}},

@@ -20,7 +20,18 @@ var (
 	// *TooFewError unwraps to it.
 	ErrTooFewReplicates = errors.New("inspect: fewer than 2 usable replicates")
 	// ErrEstimate reports a full-data estimate that is NaN or infinite.
+	// When it is NaN, the error also wraps [ErrNotEstimable].
 	ErrEstimate = errors.New("inspect: full-data estimate is not finite")
+	// ErrNotEstimable reports a statistic that is not estimable on the
+	// full data: its estimate is NaN, as a coefficient's is when its
+	// column is constant or collinear with others in the rows given (a
+	// holiday none of the dates falls on, with holiday.Columns learning
+	// every holiday of its calendar). Such a statistic has no bootstrap
+	// distribution: drop the column (for holiday columns, holiday.Columns'
+	// Seen option keeps only the holidays the dates contain) or leave the
+	// statistic out of the summaries. An error that wraps it also wraps
+	// [ErrEstimate].
+	ErrNotEstimable = errors.New("inspect: not estimable on the full data")
 	// ErrDegenerate reports a bootstrap distribution with no spread: all
 	// usable replicate values equal, to a relative 1e-12.
 	ErrDegenerate = errors.New("inspect: all replicate values are equal")
@@ -290,6 +301,32 @@ func (e *replicateError) Unwrap() error { return e.err }
 
 const maxFirstErrors = 3
 
+// estimateError reports a full-data estimate that is not finite, saying
+// what a NaN means and what to do about it. It unwraps to ErrEstimate,
+// and to ErrNotEstimable when the estimate is NaN.
+type estimateError struct {
+	op    string // the message's prefix, "inspect: " or "inspect: Histograms: "
+	name  string
+	value float64
+}
+
+func (e *estimateError) Error() string {
+	if math.IsNaN(e.value) {
+		return fmt.Sprintf("%s%s is not estimable on the full data (its estimate is NaN: for a coefficient, "+
+			"its column is constant or collinear with other columns in the rows given), so it has no bootstrap "+
+			"distribution; drop the column or leave it out of the summaries", e.op, e.name)
+	}
+	return fmt.Sprintf("%s%s: full-data estimate is %v, not finite, so it has no bootstrap distribution to summarise",
+		e.op, e.name, e.value)
+}
+
+func (e *estimateError) Unwrap() []error {
+	if math.IsNaN(e.value) {
+		return []error{ErrNotEstimable, ErrEstimate}
+	}
+	return []error{ErrEstimate}
+}
+
 // constant reports whether lo and hi are equal to a relative 1e-12.
 func constant(lo, hi float64) bool {
 	return hi-lo <= 1e-12*math.Max(math.Abs(lo), math.Abs(hi))
@@ -299,7 +336,9 @@ func constant(lo, hi float64) bool {
 //
 // Failed and not-estimable replicates are counted and left out. Summarize
 // returns an error if the level is outside (0, 1), if the estimate is not
-// finite, or if fewer than 2 replicates are usable (a *[TooFewError]). A
+// finite ([ErrEstimate]; a NaN estimate, a statistic not estimable on the
+// full data, also [ErrNotEstimable]), or if fewer than 2 replicates are
+// usable (a *[TooFewError]). A
 // method that cannot be computed on these replicates (no spread, a
 // degenerate jackknife, missing standard errors) sets that interval's Err
 // and leaves the other intervals alone. Intervals are never silently NaN.
@@ -333,8 +372,8 @@ func Summarize(r Statistic, c Config) (Summary, error) {
 	if !(level > 0 && level < 1) {
 		return s, fmt.Errorf("%w: %v", ErrLevel, c.Level)
 	}
-	if math.IsNaN(r.Estimate) || math.IsInf(r.Estimate, 0) {
-		return s, fmt.Errorf("%w: %s is %v", ErrEstimate, nameOr(r.Name), r.Estimate)
+	if !finite(r.Estimate) {
+		return s, &estimateError{op: "inspect: ", name: nameOr(r.Name), value: r.Estimate}
 	}
 
 	used := make([]int, 0, len(r.Values))

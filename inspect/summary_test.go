@@ -151,6 +151,8 @@ func TestSummarizeFragile(t *testing.T) {
 		{name: "level negative", in: inspect.Statistic{Estimate: 1, Values: spread(50)}, cfg: inspect.Config{Level: -0.9}, wantErr: inspect.ErrLevel},
 		{name: "level 95 not .95", in: inspect.Statistic{Estimate: 1, Values: spread(50)}, cfg: inspect.Config{Level: 95}, wantErr: inspect.ErrLevel},
 		{name: "estimate NaN", in: inspect.Statistic{Estimate: nan, Values: spread(50)}, wantErr: inspect.ErrEstimate},
+		{name: "estimate NaN not estimable", in: inspect.Statistic{Estimate: nan, Values: spread(50)}, wantErr: inspect.ErrNotEstimable},
+		{name: "estimate infinite", in: inspect.Statistic{Estimate: math.Inf(1), Values: spread(50)}, wantErr: inspect.ErrEstimate},
 		{name: "all equal", in: inspect.Statistic{Estimate: 3, Values: seq(50, func(int) float64 { return 3 }), Acceleration: &accel},
 			ivErr: map[inspect.Method]error{inspect.Percentile: inspect.ErrDegenerate, inspect.Basic: inspect.ErrDegenerate,
 				inspect.Normal: inspect.ErrDegenerate, inspect.BCa: inspect.ErrDegenerate}},
@@ -343,5 +345,43 @@ func BenchmarkSummarize(b *testing.B) {
 		if _, err := inspect.Summarize(in, inspect.Config{}); err != nil {
 			b.Fatal(err)
 		}
+	}
+}
+
+// TestSummarizeNotEstimable checks the error for a coefficient with no
+// full-data estimate (a holiday none of the rows falls on): it says what
+// that means and what to do, and wraps the sentinels callers test.
+func TestSummarizeNotEstimable(t *testing.T) {
+	tests := []struct {
+		name          string
+		estimate      float64
+		notEstimable  bool
+		wantInMessage []string
+	}{
+		{"NaN", math.NaN(), true, []string{"christmas_day is not estimable on the full data",
+			"constant or collinear", "no bootstrap distribution", "drop the column"}},
+		{"+Inf", math.Inf(1), false, []string{"christmas_day", "+Inf", "not finite"}},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			_, err := inspect.Summarize(inspect.Statistic{Name: "christmas_day", Estimate: tt.estimate, Values: spread(50)}, inspect.Config{})
+			if err == nil {
+				t.Fatal("got no error, want one")
+			}
+			if !errors.Is(err, inspect.ErrEstimate) {
+				t.Errorf("got %v, want it to wrap ErrEstimate", err)
+			}
+			if got := errors.Is(err, inspect.ErrNotEstimable); got != tt.notEstimable {
+				t.Errorf("errors.Is(err, ErrNotEstimable): got %t, want %t (err %v)", got, tt.notEstimable, err)
+			}
+			for _, w := range tt.wantInMessage {
+				if !strings.Contains(err.Error(), w) {
+					t.Errorf("got message %q, want it to contain %q", err, w)
+				}
+			}
+			if strings.Count(err.Error(), "inspect:") != 1 {
+				t.Errorf("got message %q, want one \"inspect:\" prefix", err)
+			}
+		})
 	}
 }
