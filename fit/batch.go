@@ -42,9 +42,12 @@ type CountsFunc func(r int, dst []int32)
 //     weights, not validation splits that hold rows out of both sides);
 //   - what the callbacks need is coefficients, their classical standard
 //     errors, the residual standard error, the rows used, and out-of-bag
-//     RMSE and MAE over the rows with count zero (set OutOfBag); callbacks
-//     that need the fitted model itself (its residuals, its Predict on other
-//     data, sandwich covariances) need the generic path.
+//     RMSE, MAE and R² over the rows with count zero (set OutOfBag);
+//     callbacks that need the fitted model itself (its residuals, its
+//     Predict on other data, sandwich covariances) need the generic path.
+//
+// With Ridge set, replicate r is instead Ridge.FitRidge on the replicate
+// (see the Ridge field).
 //
 // # Exactness
 //
@@ -66,9 +69,12 @@ type CountsFunc func(r int, dst []int32)
 // Batch never materialises a resampled design and never holds the
 // rows × q cross-product table: it keeps the counts of one block of
 // replicates (one byte per row and replicate, about half the size of the
-// design in all; at least 4 MiB) and one block of 256 rows of Z per worker.
-// The work is about 2·B·n·q floating-point operations, done by an
-// AVX2/FMA assembly kernel on amd64 (plain Go elsewhere).
+// design in all; at least 4 MiB), one block of 256 rows of Z per worker,
+// and the block's cross-product sums for each run of 4096 rows
+// (⌈n/4096⌉ · block · q values, about a tenth of the counts). Each row
+// block of Z is built once per block of replicates and shared by all its
+// replicates. The work is about 2·B·n·q floating-point operations, done by
+// an AVX2/FMA assembly kernel on amd64 (plain Go elsewhere).
 //
 // # Determinism and concurrency
 //
