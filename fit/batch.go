@@ -71,7 +71,7 @@ type CountsFunc func(r int, dst []int32)
 // replicates (one byte per row and replicate, about half the size of the
 // design in all; at least 4 MiB), one block of 256 rows of Z per worker,
 // and the block's cross-product sums for each run of 4096 rows
-// (⌈n/4096⌉ · block · q values, about a tenth of the counts). Each row
+// (⌈n/4096⌉ · block · q values, q/512 times the size of the counts). Each row
 // block of Z is built once per block of replicates and shared by all its
 // replicates. The work is about 2·B·n·q floating-point operations, done by
 // an AVX2/FMA assembly kernel on amd64 (plain Go elsewhere).
