@@ -39,12 +39,12 @@ func (p Parts) zero() bool { return p == Parts{} }
 // it joins the calendar parts of package features in one design through
 // [features.Join].
 //
-// Learn records the holidays of the calendar itself (every name it has in
-// MinYear…MaxYear, or those listed in Names), never those that happen to
-// occur among the dates it is given, so a design learned on in-bag rows
-// and applied to out-of-bag rows always has the same columns. A holiday
-// absent from the learning rows gives a column of zeros there; a fit
-// should be ready for that (drop it or regularise).
+// By default Learn records the holidays of the calendar itself (every name
+// it has in MinYear…MaxYear, or those listed in Names), never those that
+// happen to occur among the dates it is given, so a design learned on
+// in-bag rows and applied to out-of-bag rows always has the same columns.
+// A holiday absent from the learning rows gives a column of zeros there; a
+// fit should be ready for that (drop it or regularise), or set Seen.
 //
 // Column names, with Prefix in front of each and S the [Slug] of a
 // holiday's name, in this order: for each holiday, S (Indicator),
@@ -91,6 +91,20 @@ type Columns struct {
 	// Prefix is put in front of every column name, to keep them apart
 	// from other columns of the design.
 	Prefix string
+	// Seen keeps, for the Each columns, only the holidays that fall on at
+	// least one of the dates given to Learn (on their observed date, or
+	// their actual date with Actual), so that a design has no all-zero
+	// per-holiday columns for the data at hand. Any, Bridge and Business
+	// still use every holiday selected.
+	//
+	// With Seen the learned columns depend on the learning rows. In a
+	// resampling run, which learns the design on each replicate's in-bag
+	// rows, a holiday absent from them is a missing column in that
+	// replicate: its coefficient is reported as not estimable there, and
+	// an out-of-bag row on that holiday is encoded as an ordinary day. The
+	// default, false, makes a column for every holiday of the calendar (or
+	// of Names), so the columns never depend on the rows.
+	Seen bool
 }
 
 // Learn checks the configuration and dates and returns the encoder. Errors
@@ -99,7 +113,7 @@ type Columns struct {
 // (the calendar, or the holidays selected by Names, are none),
 // [ErrCalendar] (from tabulating a Calendar of your own), or are
 // [*DateError] for a date outside MinYear…MaxYear. The dates are not
-// otherwise used.
+// otherwise used, unless Seen is set.
 func (c Columns) Learn(dates []time.Time) (features.Encoder, error) {
 	if c.Calendar == nil {
 		return nil, fmt.Errorf("%w: no calendar", ErrColumns)
@@ -184,13 +198,25 @@ func (c Columns) Learn(dates []time.Time) (features.Encoder, error) {
 			add(stem+"_days_since", op{kind: opSince, mask: mask, set: set, dist: d, k: p.Since})
 		}
 	}
+	var onDates []uint64 // with Seen, the holidays on one of the dates
+	if c.Seen {
+		onDates = make([]uint64, t.nw)
+		for _, d := range dates {
+			z := dayOf(d) - baseDay
+			for w, bits := range mask[z*t.nw : (z+1)*t.nw] {
+				onDates[w] |= bits
+			}
+		}
+	}
 	anySet := make([]uint64, t.nw)
 	for _, n := range sel {
 		k := t.index[n]
 		one := make([]uint64, t.nw)
 		one[k/64] = 1 << (k % 64)
 		anySet[k/64] |= 1 << (k % 64)
-		parts(Slug(n), one, c.Each)
+		if onDates == nil || onDates[k/64]&one[k/64] != 0 {
+			parts(Slug(n), one, c.Each)
+		}
 	}
 	parts("any_holiday", anySet, c.Any)
 	if c.Bridge {

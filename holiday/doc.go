@@ -3,10 +3,11 @@
 // indicator per holiday on its actual or observed date, any-holiday,
 // windows before and after, capped days until and since, bridge and
 // business days. [Columns] is a [features.Builder], so these join the
-// calendar parts of package features in one design; it learns its columns
-// from the calendar, never from the rows, so in-bag and out-of-bag
-// designs match. A holiday coefficient is an association between the day
-// and the outcome in your data, not the effect the holiday causes.
+// calendar parts of package features in one design; by default it learns
+// its columns from the calendar, never from the rows, so in-bag and
+// out-of-bag designs match (with Seen, only the holidays the rows meet get
+// a column of their own). A holiday coefficient is an association between
+// the day and the outcome in your data, not the effect the holiday causes.
 //
 // # Coverage and limits
 //

@@ -83,3 +83,20 @@ func ExampleColumns() {
 	// Dec 28 1 4
 	// Dec 31 1 1
 }
+
+// Seen: only the holidays the dates meet get a column. Spring and summer
+// 2024 in England and Wales have three days off.
+func ExampleColumns_seen() {
+	gb, _ := holiday.Country("GB")
+	var dates []time.Time
+	for t := time.Date(2024, time.April, 15, 0, 0, 0, 0, time.UTC); t.Month() < time.September; t = t.AddDate(0, 0, 1) {
+		dates = append(dates, t)
+	}
+	every, _ := holiday.Columns{Calendar: gb, Each: holiday.Parts{Indicator: true}}.Learn(dates)
+	seen, _ := holiday.Columns{Calendar: gb, Each: holiday.Parts{Indicator: true}, Seen: true}.Learn(dates)
+	fmt.Println(len(every.Names()), "columns without Seen")
+	fmt.Println(seen.Names())
+	// Output:
+	// 11 columns without Seen
+	// [early_may spring_bank_holiday summer_bank_holiday]
+}
