@@ -14,9 +14,9 @@ import (
 	"flag"
 	"fmt"
 	"io"
-	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
@@ -101,7 +101,7 @@ func parseFlags(args []string, stderr io.Writer) (config, error) {
 	fs.StringVar(&c.extra, "extra", "", "comma-separated names of extra numeric columns to include in the model")
 	fs.StringVar(&c.calendar, "calendar", "", "a country or region holiday calendar code (GB, US, FR, DE-BY, ...); empty for none")
 	fs.Var(&c.holidays, "holiday", "a custom holiday, \"Name=WHEN\" (repeatable; forms above)")
-	fs.StringVar(&c.holidayCols, "holidays", "each", "holiday columns: each (one indicator per holiday), any (one for all) or none")
+	fs.StringVar(&c.holidayCols, "holidays", "each", "holiday columns: each (one indicator per holiday that falls on a row), any (one for all) or none")
 	fs.StringVar(&c.parts, "parts", "weekday:indicator,month:cyclic,trend", "calendar parts and encodings (see above)")
 	fs.StringVar(&c.scheme, "scheme", "bootstrap", "resampling: bootstrap, balanced, bayesian, poisson, stationary, moving-block, circular-block")
 	fs.IntVar(&c.b, "b", 999, "number of replicates")
@@ -179,7 +179,7 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 		}
 	}
 
-	design, err := buildDesign(c, in.dates)
+	design, absent, err := buildDesign(c, in.dates)
 	if err != nil {
 		return err
 	}
@@ -233,16 +233,15 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	var sums []inspect.Summary
 	var unfit, notes []string
 	for _, st := range stats {
-		if math.IsNaN(st.Estimate) {
-			unfit = append(unfit, st.Name)
-			continue
-		}
 		s, err := inspect.Summarize(st, cfg)
-		if err != nil {
+		switch {
+		case errors.Is(err, inspect.ErrNotEstimable):
+			unfit = append(unfit, st.Name)
+		case err != nil:
 			notes = append(notes, fmt.Sprintf("%s: not summarised: %v", st.Name, err))
-			continue
+		default:
+			sums = append(sums, s)
 		}
-		sums = append(sums, s)
 	}
 
 	p := func(format string, a ...any) { fmt.Fprintf(stdout, format, a...) }
@@ -283,8 +282,11 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 			fmt.Sprintf("%d of %d", s.Used, s.Replicates), rows)
 		p("%s\n", strings.TrimRight(line, " "))
 	}
+	if len(absent) > 0 {
+		p("\nHolidays of the calendar on none of the rows, so without a column:\n  %s\n", strings.Join(absent, ", "))
+	}
 	if len(unfit) > 0 {
-		p("\nNot estimable even on all rows (no row has the day, or the column repeats others):\n  %s\n",
+		p("\nNot estimable even on all rows (the column is constant or repeats others):\n  %s\n",
 			strings.Join(unfit, ", "))
 	}
 	if len(notes) > 0 {
@@ -350,11 +352,13 @@ func firstErr(errs []error) error {
 
 // buildDesign makes the feature set from the flags: an intercept, the
 // calendar parts (indicator parts without a named reference leave out the
-// first level seen in dates) and the holiday columns.
-func buildDesign(c config, dates []time.Time) (features.Builder, error) {
+// first level seen in dates) and the holiday columns. With -holidays each,
+// only the holidays that fall on one of the dates get a column
+// (holiday.Columns.Seen); absent names the others' columns.
+func buildDesign(c config, dates []time.Time) (design features.Builder, absent []string, err error) {
 	parts, trend, err := parseParts(c.parts)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	set := features.Set{ZeroUnseen: true}
 	for _, ps := range parts {
@@ -365,7 +369,7 @@ func buildDesign(c config, dates []time.Time) (features.Builder, error) {
 	}
 	enc, err := set.Learn(dates)
 	if err != nil {
-		return nil, fmt.Errorf("-parts: %v", err)
+		return nil, nil, fmt.Errorf("-parts: %v", err)
 	}
 	learned := enc.Names()
 	for k, ps := range parts {
@@ -386,7 +390,7 @@ func buildDesign(c config, dates []time.Time) (features.Builder, error) {
 	if c.calendar != "" {
 		cal, err := holiday.Country(c.calendar)
 		if err != nil {
-			return nil, fmt.Errorf("-calendar %q: %v", c.calendar, err)
+			return nil, nil, fmt.Errorf("-calendar %q: %v", c.calendar, err)
 		}
 		cals = append(cals, cal)
 	}
@@ -395,33 +399,59 @@ func buildDesign(c config, dates []time.Time) (features.Builder, error) {
 		for _, v := range c.holidays {
 			r, err := parseHoliday(v)
 			if err != nil {
-				return nil, err
+				return nil, nil, err
 			}
 			rules = append(rules, r)
 		}
 		cal, err := holiday.New("custom", rules...)
 		if err != nil {
-			return nil, fmt.Errorf("-holiday: %v", err)
+			return nil, nil, fmt.Errorf("-holiday: %v", err)
 		}
 		cals = append(cals, cal)
 	}
 	if len(cals) > 0 && c.holidayCols != "none" {
 		cal, err := holiday.Combine(cals...)
 		if err != nil {
-			return nil, err
+			return nil, nil, err
 		}
 		hc := holiday.Columns{Calendar: cal}
 		switch c.holidayCols {
 		case "each":
 			hc.Each.Indicator = true
+			if absent, err = absentHolidays(hc, dates); err != nil {
+				return nil, nil, err
+			}
+			hc.Seen = true
 		case "any":
 			hc.Any.Indicator = true
 		default:
-			return nil, fmt.Errorf("-holidays %q: want each, any or none", c.holidayCols)
+			return nil, nil, fmt.Errorf("-holidays %q: want each, any or none", c.holidayCols)
 		}
 		builders = append(builders, hc)
 	}
-	return features.Join(builders...), nil
+	return features.Join(builders...), absent, nil
+}
+
+// absentHolidays returns the columns hc makes for holidays on none of the
+// dates: those it makes without Seen and not with it.
+func absentHolidays(hc holiday.Columns, dates []time.Time) ([]string, error) {
+	hc.Seen = false
+	all, err := hc.Learn(dates)
+	if err != nil {
+		return nil, err
+	}
+	hc.Seen = true
+	seen, err := hc.Learn(dates)
+	if err != nil {
+		return nil, err
+	}
+	var absent []string
+	for _, n := range all.Names() {
+		if !slices.Contains(seen.Names(), n) {
+			absent = append(absent, n)
+		}
+	}
+	return absent, nil
 }
 
 // indicatorRows reports, for a 0/1 column of x, how many rows are 1.

@@ -271,3 +271,48 @@ func TestParseParts(t *testing.T) {
 		})
 	}
 }
+
+// TestAbsentHolidays runs 120 days from 1 January 2024 with the England
+// and Wales calendar. The UK government's list (www.gov.uk/bank-holidays,
+// recalled from memory, as in package holiday's tests) has three days off
+// in them: New Year's Day (1 January), Good Friday (29 March) and Easter
+// Monday (1 April). Only those get a column; the others are named as
+// absent rather than reported as not estimable.
+func TestAbsentHolidays(t *testing.T) {
+	var b strings.Builder
+	b.WriteString("date,sales\n")
+	for i := range 120 {
+		d := time.Date(2024, 1, 1, 0, 0, 0, 0, time.UTC).AddDate(0, 0, i)
+		b.WriteString(d.Format(time.DateOnly) + "," + strconv.Itoa(100+i%7*3+(i*37)%11) + "\n")
+	}
+	args := []string{"-file", "-", "-outcome", "sales", "-calendar", "GB", "-parts", "weekday:indicator", "-b", "30", "-out", t.TempDir()}
+	var out, errs bytes.Buffer
+	if err := run(args, strings.NewReader(b.String()), &out, &errs); err != nil {
+		t.Fatalf("%v\n%s", err, errs.String())
+	}
+	rows := map[string]string{}
+	re := regexp.MustCompile(`^(\S+)\s+\S+\s+\[.*\]\s+\S+\s+\d+ of \d+\s*(\d*)`)
+	for _, line := range strings.Split(out.String(), "\n") {
+		if m := re.FindStringSubmatch(line); m != nil {
+			rows[m[1]] = m[2]
+		}
+	}
+	for _, h := range []string{"new_years_day", "good_friday", "easter_monday"} {
+		if rows[h] != "1" {
+			t.Errorf("%s: got rows %q, want a line with 1 row", h, rows[h])
+		}
+	}
+	absent := "early_may, spring_bank_holiday, summer_bank_holiday, christmas_day, boxing_day, " +
+		"platinum_jubilee_bank_holiday, state_funeral_of_queen_elizabeth_ii, coronation_of_king_charles_iii"
+	if !strings.Contains(out.String(), "on none of the rows, so without a column:\n  "+absent+"\n") {
+		t.Errorf("output does not name the absent holidays %s:\n%s", absent, out.String())
+	}
+	for _, h := range strings.Split(absent, ", ") {
+		if _, ok := rows[h]; ok {
+			t.Errorf("absent holiday %s has a line in the table", h)
+		}
+	}
+	if strings.Contains(out.String(), "Not estimable even on all rows") {
+		t.Errorf("output reports columns not estimable on all rows, want none:\n%s", out.String())
+	}
+}
