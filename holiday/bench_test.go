@@ -33,3 +33,32 @@ func BenchmarkHolidayColumns1M(b *testing.B) {
 	}
 	b.ReportMetric(float64(n)*float64(b.N)/b.Elapsed().Seconds(), "dates/s")
 }
+
+// BenchmarkAlmanacOn looks up random days of 1990–2030 with On and
+// DayOff; the cost per look-up should not depend on the date.
+func BenchmarkAlmanacOn(b *testing.B) {
+	r := rand.New(rand.NewPCG(5, 6))
+	span := daysFromCivil(2031, 1, 1) - daysFromCivil(1990, 1, 1)
+	dates := make([]time.Time, 4096)
+	for i := range dates {
+		dates[i] = d(1990, 1, 1).AddDate(0, 0, r.IntN(span))
+	}
+	gb := mustCountry(b, "GB")
+	gb.DayOff(dates[0]) // tabulate before timing
+	b.Run("On", func(b *testing.B) {
+		b.ReportAllocs()
+		i := 0
+		for b.Loop() {
+			_ = gb.On(dates[i%len(dates)])
+			i++
+		}
+	})
+	b.Run("DayOff", func(b *testing.B) {
+		b.ReportAllocs()
+		i := 0
+		for b.Loop() {
+			_ = gb.DayOff(dates[i%len(dates)])
+			i++
+		}
+	})
+}

@@ -100,3 +100,22 @@ func ExampleColumns_seen() {
 	// 11 columns without Seen
 	// [early_may spring_bank_holiday summer_bank_holiday]
 }
+
+// On and DayOff answer for one date from the calendar's table. Christmas
+// Day 2022 fell on a Sunday and was observed on Tuesday 27 December.
+func ExampleAlmanac_On() {
+	gb, _ := holiday.Country("GB")
+	for day := 25; day <= 28; day++ {
+		t := time.Date(2022, time.December, day, 0, 0, 0, 0, time.UTC)
+		fmt.Print(t.Format("Mon 2 Jan: "), gb.DayOff(t))
+		for _, h := range gb.On(t) {
+			fmt.Printf(", %s (%s, observed %s)", h.Name, h.Date.Format("Jan 2"), h.Observed.Format("Jan 2"))
+		}
+		fmt.Println()
+	}
+	// Output:
+	// Sun 25 Dec: false, Christmas Day (Dec 25, observed Dec 27)
+	// Mon 26 Dec: true, Boxing Day (Dec 26, observed Dec 26)
+	// Tue 27 Dec: true, Christmas Day (Dec 25, observed Dec 27)
+	// Wed 28 Dec: false
+}

@@ -123,6 +123,9 @@ type table struct {
 	act   []uint64       // day×nw bitmask of names on their actual date
 	obs   []uint64       // day×nw bitmask of names on their observed date
 	shown []string       // distinct names of MinYear…MaxYear, in order of first occurrence
+	// on maps a day number to the occurrences on it (actual or
+	// observed), for Almanac.On.
+	on map[int][]Holiday
 }
 
 func (a *Almanac) table() *table {
@@ -163,11 +166,17 @@ func tabulate(years [][]Holiday) *table {
 			m[i*t.nw+k/64] |= 1 << (k % 64)
 		}
 	}
+	t.on = make(map[int][]Holiday)
 	for _, hs := range years {
 		for _, h := range hs {
 			k := t.index[h.Name]
-			set(t.act, dayOf(h.Date), k)
-			set(t.obs, dayOf(h.Observed), k)
+			act, obs := dayOf(h.Date), dayOf(h.Observed)
+			set(t.act, act, k)
+			set(t.obs, obs, k)
+			t.on[act] = append(t.on[act], h)
+			if obs != act {
+				t.on[obs] = append(t.on[obs], h)
+			}
 		}
 	}
 	return t

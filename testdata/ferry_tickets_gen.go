@@ -37,12 +37,6 @@ func main() {
 	if err != nil {
 		log.Fatal(err)
 	}
-	dayOff := map[time.Time]bool{}
-	for y := 2018; y <= 2025; y++ {
-		for _, h := range gb.Holidays(y) {
-			dayOff[h.Observed] = true
-		}
-	}
 	g := rand.New(rand.NewPCG(1847, 2))
 	f, err := os.Create("testdata/ferry_tickets.csv")
 	if err != nil {
@@ -75,7 +69,7 @@ func main() {
 		if t.Weekday() == time.Saturday || t.Weekday() == time.Sunday {
 			y += 45
 		}
-		if dayOff[t] {
+		if gb.DayOff(t) {
 			y += 35
 		}
 		if t.Month() == time.August && t.Weekday() == time.Saturday && t.Day() > 7 && t.Day() <= 14 {

@@ -86,19 +86,16 @@ func yearsSince2011(t time.Time) float64 {
 // makeBroadcasts returns the invented broadcasts of 2011–2025 in date
 // order, with noise drawn from a generator seeded by seed (dataSeed in the
 // demo).
-func makeBroadcasts(gb holiday.Calendar, seed uint64) []broadcast {
-	dayOff := map[time.Time]string{}
-	for y := firstYear - 1; y <= lastYear+1; y++ {
-		for _, h := range gb.Holidays(y) {
-			if h.Observed.Year() >= firstYear && h.Observed.Year() <= lastYear {
-				dayOff[h.Observed] = h.Name
-			}
-		}
-	}
+func makeBroadcasts(gb *holiday.Almanac, seed uint64) []broadcast {
 	var rows []broadcast
 	for d := time.Date(firstYear, 1, 1, 0, 0, 0, 0, time.UTC); d.Year() <= lastYear; d = d.AddDate(0, 0, 1) {
-		name, off := dayOff[d]
-		if d.Weekday() == time.Thursday || off {
+		name := ""
+		for _, h := range gb.On(d) {
+			if h.Observed.Equal(d) { // the day off, not a weekend date it moved from
+				name = h.Name
+			}
+		}
+		if d.Weekday() == time.Thursday || name != "" {
 			rows = append(rows, broadcast{Date: d, Holiday: name})
 		}
 	}

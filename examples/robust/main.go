@@ -73,7 +73,7 @@ func phoneIn(gb *holiday.Almanac) (inspect.Data, int) {
 		if t.Weekday() == time.Friday {
 			y += truth["weekday=Friday"]
 		}
-		if isDayOff(gb, t) {
+		if gb.DayOff(t) {
 			y += truth["any_holiday"]
 		}
 		y += noiseSD * g.NormFloat64()
@@ -86,15 +86,6 @@ func phoneIn(gb *holiday.Almanac) (inspect.Data, int) {
 }
 
 func daysIn(year int) int { return time.Date(year, 12, 31, 0, 0, 0, 0, time.UTC).YearDay() }
-
-func isDayOff(c holiday.Calendar, t time.Time) bool {
-	for _, h := range c.Holidays(t.Year()) {
-		if h.Observed.Equal(t) {
-			return true
-		}
-	}
-	return false
-}
 
 // robustness is what our callback keeps from every replicate.
 type robustness struct {
