@@ -564,11 +564,7 @@ func (e *batchEngine) compress(dst []uint8, c []int32, r int) bool {
 		}
 	}
 	if or > 255 {
-		for _, ci := range c {
-			if ci > 255 {
-				return true
-			}
-		}
+		return true // some count is above 255
 	}
 	if e.w == nil {
 		return nz < e.src.p
@@ -611,18 +607,17 @@ func (e *batchEngine) store(r int, f *repFit) {
 
 // xpScratch is one worker's buffers for crossProducts.
 type xpScratch struct {
-	zp, ap, z, row, u []float64
+	zb, ap, row, u []float64
 }
 
 func (e *batchEngine) scratchFor(w int) *xpScratch {
 	s := &e.scratch[w]
-	if s.zp == nil {
-		const T, S = blockxp.Tile, blockxp.Strip
-		s.zp = make([]float64, e.l.qpad/S*batchRows*S)
+	if s.zb == nil {
+		const T = blockxp.Tile
+		s.zb = make([]float64, batchRows*e.l.qpad) // row-major; padding stays zero
 		s.row = make([]float64, e.src.p)
 		s.u = make([]float64, e.l.k)
 		s.ap = make([]float64, groupTiles*batchRows*T)
-		s.z = make([]float64, e.l.qpad) // padding stays zero
 	}
 	return s
 }
@@ -659,7 +654,7 @@ func (e *batchEngine) crossProducts(counts8 []uint8, sums []float64, tiles int) 
 	}
 	parallel(e.workers, chunks*groups, func(w int, next func() (int, bool)) {
 		sc := e.scratchFor(w)
-		zp, ap, z, row, u := sc.zp, sc.ap, sc.z, sc.row, sc.u
+		zb, ap, row, u := sc.zb, sc.ap, sc.row, sc.u
 		for unit, ok := next(); ok; unit, ok = next() {
 			c, g := unit/groups, unit%groups
 			t0, t1 := g*groupTiles, min((g+1)*groupTiles, tiles)
@@ -673,18 +668,15 @@ func (e *batchEngine) crossProducts(counts8 []uint8, sums []float64, tiles int) 
 					i := i0 + k
 					e.src.row(i, row)
 					v := e.m.standardise(u, row, e.y[i])
-					l.fill(z, u, v, e.weight(i))
-					for s := range strips {
-						*(*[S]float64)(zp[(s*nb+k)*S:]) = *(*[S]float64)(z[s*S:])
-					}
+					l.fill(zb[k*l.qpad:], u, v, e.weight(i))
 				}
 				for t := t0; t < t1; t++ {
 					blockxp.Widen(ap[(t-t0)*batchRows*T:], counts8[(t*n+i0)*T:(t*n+i0+nb)*T])
 				}
 				for s := range strips {
-					zs := zp[s*nb*S : (s+1)*nb*S]
+					zs := zb[s*S : (nb-1)*l.qpad+(s+1)*S]
 					for t := t0; t < t1; t++ {
-						blockxp.MulAdd(nb, ap[(t-t0)*batchRows*T:], zs, dst[t*T*l.qpad+s*S:], l.qpad)
+						blockxp.MulAddStrided(nb, ap[(t-t0)*batchRows*T:], zs, l.qpad, dst[t*T*l.qpad+s*S:], l.qpad)
 					}
 				}
 			}

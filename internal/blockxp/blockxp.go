@@ -1,6 +1,8 @@
 // Package blockxp holds the small dense kernel behind kalends' batched
-// least-squares path: C (4 × 12 tile) += A (4 × k) · Z (k × 12), with A and
-// Z packed so that the kernel reads both sequentially.
+// least-squares path: C (4 × 12 tile) += A (4 × k) · Z (k × 12), with A
+// packed so that the kernel reads it sequentially and Z read row by row,
+// in place, from a strip of a wider row-major matrix. Widen converts the
+// path's one-byte row counts to float64.
 //
 // On amd64 processors with AVX2 and FMA the kernel is Go assembly; elsewhere
 // (or with the purego build tag) it is plain Go. The two agree to rounding
@@ -23,20 +25,24 @@ func Accelerated() bool { return hasFMA }
 // Z[l][j]), and the tile is c[r*ldc+j] for r < 4, j < 12. The sum over l
 // is formed in increasing l in registers and then added to c. MulAdd
 // panics if a slice is too short.
-func MulAdd(k int, ap, zp, c []float64, ldc int) {
-	if len(ap) < Tile*k || len(zp) < Strip*k || len(c) < 3*ldc+Strip || ldc < Strip {
+func MulAdd(k int, ap, zp, c []float64, ldc int) { MulAddStrided(k, ap, zp, Strip, c, ldc) }
+
+// MulAddStrided is MulAdd with the rows of Z ldz apart: Z[l][j] is
+// zp[ldz*l+j], so a strip of a wider row-major matrix can be read in
+// place. It panics if a slice is too short or ldz < Strip.
+func MulAddStrided(k int, ap, zp []float64, ldz int, c []float64, ldc int) {
+	if ldz < Strip || ldc < Strip || len(ap) < Tile*k || (k > 0 && len(zp) < ldz*(k-1)+Strip) || len(c) < 3*ldc+Strip {
 		panic("blockxp: MulAdd: slice too short")
 	}
-	mulAdd(k, ap, zp, c, ldc)
+	mulAdd(k, ap, zp, ldz, c, ldc)
 }
 
-func mulAddGo(k int, ap, zp, c []float64, ldc int) {
+func mulAddGo(k int, ap, zp []float64, ldz int, c []float64, ldc int) {
 	var acc [Tile][Strip]float64
 	ap = ap[:Tile*k]
-	zp = zp[:Strip*k]
 	for l := 0; l < k; l++ {
 		a := ap[Tile*l : Tile*l+Tile : Tile*l+Tile]
-		z := zp[Strip*l : Strip*l+Strip : Strip*l+Strip]
+		z := zp[ldz*l : ldz*l+Strip : ldz*l+Strip]
 		for r := range Tile {
 			ar := a[r]
 			row := &acc[r]

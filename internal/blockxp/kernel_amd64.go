@@ -3,7 +3,7 @@
 package blockxp
 
 //go:noescape
-func mulAdd4x12(k int, ap, zp, c *float64, ldc int)
+func mulAdd4x12(k int, ap, zp *float64, ldz int, c *float64, ldc int)
 
 func cpuid(leaf, sub uint32) (a, b, c, d uint32)
 
@@ -28,18 +28,18 @@ var hasFMA = func() bool {
 	return b7&(1<<5) != 0 // AVX2
 }()
 
-func mulAdd(k int, ap, zp, c []float64, ldc int) {
+func mulAdd(k int, ap, zp []float64, ldz int, c []float64, ldc int) {
 	if !hasFMA {
-		mulAddGo(k, ap, zp, c, ldc)
+		mulAddGo(k, ap, zp, ldz, c, ldc)
 		return
 	}
 	if k == 0 {
 		return
 	}
 	_ = ap[4*k-1]
-	_ = zp[Strip*k-1]
+	_ = zp[ldz*(k-1)+Strip-1]
 	_ = c[3*ldc+Strip-1]
-	mulAdd4x12(k, &ap[0], &zp[0], &c[0], ldc)
+	mulAdd4x12(k, &ap[0], &zp[0], ldz, &c[0], ldc)
 }
 
 //go:noescape

@@ -2,13 +2,15 @@
 
 #include "textflag.h"
 
-// func mulAdd4x12(k int, ap, zp, c *float64, ldc int)
-TEXT ·mulAdd4x12(SB), NOSPLIT, $0-40
+// func mulAdd4x12(k int, ap, zp *float64, ldz int, c *float64, ldc int)
+TEXT ·mulAdd4x12(SB), NOSPLIT, $0-48
 	MOVQ k+0(FP), CX
 	MOVQ ap+8(FP), SI
 	MOVQ zp+16(FP), DI
-	MOVQ c+24(FP), DX
-	MOVQ ldc+32(FP), R8
+	MOVQ ldz+24(FP), R9
+	SHLQ $3, R9
+	MOVQ c+32(FP), DX
+	MOVQ ldc+40(FP), R8
 	SHLQ $3, R8
 	VXORPD Y0, Y0, Y0
 	VXORPD Y1, Y1, Y1
@@ -45,7 +47,7 @@ loop:
 	VFMADD231PD Y13, Y15, Y10
 	VFMADD231PD Y14, Y15, Y11
 	ADDQ $32, SI
-	ADDQ $96, DI
+	ADDQ R9, DI
 	DECQ CX
 	JNZ loop
 done:
