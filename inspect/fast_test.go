@@ -125,6 +125,7 @@ func TestRunBatchedAgreesWithRefit(t *testing.T) {
 		{name: "few rows", n: 9, B: 400, scheme: resample.Bootstrap{B: 400}, wantFailed: true, wantNotEstim: true},
 		{name: "poisson bootstrap", n: 80, B: 200, scheme: resample.Poisson{B: 200}, wantNotEstim: true},
 		{name: "k-fold", n: 100, B: 5, scheme: resample.KFold{K: 5}},
+		{name: "some replicates without out-of-bag rows", n: 60, B: 100, scheme: everyTenth{B: 100}, wantNotEstim: true, wantMetricsFail: true},
 		{name: "ridge", n: 150, B: 300, scheme: resample.Bootstrap{B: 300}, fitter: fit.Ridge{Lambda: 4}, wantNotEstim: true},
 		{name: "ridge, few rows", n: 9, B: 200, scheme: resample.Bootstrap{B: 200}, fitter: &fit.Ridge{Lambda: 0.5}, wantNotEstim: true},
 	}
@@ -144,9 +145,15 @@ func TestRunBatchedAgreesWithRefit(t *testing.T) {
 			if tt.wantFailed != (slow.res.Failed > 0) {
 				t.Errorf("refit: %d failed replicates; the case wants some: %v", slow.res.Failed, tt.wantFailed)
 			}
+			if _, failed := slow.met.Count(); tt.wantMetricsFail != (failed > slow.res.Failed) {
+				t.Errorf("refit: %d metrics failures beside %d failed replicates; the case wants some: %v", failed, slow.res.Failed, tt.wantMetricsFail)
+			}
 			for r := range tt.B {
-				if (fast.res.Errs[r] == nil) != (slow.res.Errs[r] == nil) {
-					t.Fatalf("replicate %d: got error %v, want %v", r, fast.res.Errs[r], slow.res.Errs[r])
+				if fe, se := fast.met.Errs()[r], slow.met.Errs()[r]; fe != nil && se != nil && fe.Error() != se.Error() {
+					t.Errorf("replicate %d: metrics error got %q, want %q", r, fe, se)
+				}
+				if fe, se := fast.res.Errs[r], slow.res.Errs[r]; (fe == nil) != (se == nil) || fe != nil && fe.Error() != se.Error() {
+					t.Fatalf("replicate %d: got error %v, want %v", r, fe, se)
 				}
 				if fe, se := fast.met.Errs()[r], slow.met.Errs()[r]; (fe == nil) != (se == nil) {
 					t.Fatalf("replicate %d: metrics error got %v, want %v", r, fe, se)
@@ -270,6 +277,28 @@ func TestRunBatchedWorkers(t *testing.T) {
 			t.Errorf("metrics (-Workers 1 +Workers %d):\n%s", w, diff)
 		}
 	}
+}
+
+// everyTenth is a bootstrap whose every tenth replicate has every row
+// once, so no row is out of bag.
+type everyTenth struct{ B int }
+
+type everyTenthPlan struct{ resample.Plan }
+
+func (e everyTenth) Plan(n int, seed uint64) (resample.Plan, error) {
+	p, err := resample.Bootstrap{B: e.B}.Plan(n, seed)
+	return everyTenthPlan{p}, err
+}
+
+func (p everyTenthPlan) Split(r int, dst *resample.Split) *resample.Split {
+	sp := p.Plan.Split(r, dst)
+	if r%10 == 0 {
+		for i := range sp.Counts {
+			sp.Counts[i] = 1
+		}
+		sp.Out = sp.Out[:0]
+	}
+	return sp
 }
 
 // holdout is a bootstrap whose replicates from From on also hold one
