@@ -267,8 +267,8 @@ func (m *Model) Predict(dst []float64, dates []time.Time, extra *features.Table)
 //   - opts.Refit is false and Data.Weights is nil;
 //   - fs learns nothing from the rows: [features.Adapts](fs) is false
 //     ([features.Intercept], a [features.Set] without Indicator parts,
-//     holiday.Columns without Seen, and Joins of these), so every replicate's learned
-//     design is the full-data design's rows;
+//     holiday.Columns without Seen, and Joins of these), so every
+//     replicate's learned design is the full-data design's rows;
 //   - opts.Fitter is fit.OLS with Cov Classical, or fit.Ridge (or a
 //     pointer to either), read as frequency-weighted, as above;
 //   - every Keeper is [KeepCoefficients] or [KeepMetrics];
