@@ -169,10 +169,11 @@ func run(args []string, stdout, stderr io.Writer) error {
 	p("Model: least squares on an intercept, a trend, the season (sine and cosine of the month) and\n")
 	p("one indicator per holiday. Intervals: %g%% percentile, from %d stationary-bootstrap replicates\n", 100*level, res.Total)
 	p("(mean block %.1f broadcasts, seed %d), in blocks because the noise is autocorrelated: residuals\n", blockLen, o.seed)
-	p("of neighbouring broadcasts correlate at %.2f, and resampling single rows would give too narrow intervals.\n\n", lag1(resid))
+	p("of neighbouring broadcasts correlate at %.2f, and resampling single rows would make the\n", lag1(resid))
+	p("intervals too narrow. The last column counts each holiday's specials in the data.\n\n")
 
 	p("%-35s %6s %8s  %-17s %-12s %s\n", "effect (thousand listeners)", "true", "estimate",
-		fmt.Sprintf("%g%% interval", 100*level), "estimable in", "broadcasts")
+		fmt.Sprintf("%g%% interval", 100*level), "estimable in", "specials")
 	var oneOff []string
 	for _, e := range effects {
 		iv := "(none: see below)"
