@@ -107,7 +107,7 @@ func parseFlags(args []string, stderr io.Writer) (config, error) {
 	fs.IntVar(&c.b, "b", 999, "number of replicates")
 	fs.IntVar(&c.block, "block", 0, "block length for the block schemes (mean length for stationary); 0 chooses it from the data")
 	fs.Uint64Var(&c.seed, "seed", 1, "seed of the resampling: the same seed gives the same results")
-	fs.StringVar(&c.interval, "interval", "percentile", "interval method: percentile, basic, normal or studentized")
+	fs.StringVar(&c.interval, "interval", "percentile", "interval method: percentile, basic, normal, bca (adds one leave-one-out fit per row for its acceleration) or studentized")
 	fs.Float64Var(&c.level, "level", 0.95, "interval coverage, between 0 and 1")
 	fs.StringVar(&c.out, "out", filepath.Join("out", "fromcsv"), "folder for the tables (CSV, JSON) and plots (SVG, PNG); created if missing")
 	if err := fs.Parse(args); err != nil {
@@ -229,6 +229,18 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	stats, err := inspect.CoefficientStatistics(coef)
 	if err != nil {
 		return err
+	}
+	if method == inspect.BCa {
+		// BCa's acceleration comes from the leave-one-out (jackknife)
+		// estimates: one more run, over resample.Jackknife.
+		jack := inspect.KeepCoefficients()
+		if _, err := inspect.Run(context.Background(), d, design,
+			inspect.Options{Fitter: fit.OLS{}, Scheme: resample.Jackknife{}}, jack); err != nil {
+			return fmt.Errorf("jackknife for BCa: %w", err)
+		}
+		if err := inspect.WithJackknife(stats, jack); err != nil {
+			return err
+		}
 	}
 	var sums []inspect.Summary
 	var unfit, notes []string

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"errors"
 	"flag"
+	"fmt"
 	"regexp"
 	"strconv"
 	"strings"
@@ -142,8 +143,8 @@ func TestFlags(t *testing.T) {
 		{name: "no file", args: []string{"-outcome", "y"}, want: "no input: give -file FILE.csv, or -file - for standard input (see -h)"},
 		{name: "no outcome", args: []string{"-file", "x.csv"}, want: "no outcome: give -outcome and the name of the column to explain (see -h)"},
 		{name: "bad level", args: []string{"-file", "-", "-outcome", "y", "-level", "95"}, want: "-level 95: must be between 0 and 1, such as 0.95"},
-		{name: "BCa", args: []string{"-file", "-", "-outcome", "y", "-interval", "BCa"},
-			want: "-interval bca: BCa needs jackknife values, which this program does not compute; use percentile, basic, normal or studentized"},
+		{name: "unknown interval", args: []string{"-file", "-", "-outcome", "y", "-interval", "median"},
+			want: `-interval "median": want percentile, basic, normal, bca or studentized`},
 		{name: "stray argument", args: []string{"-file", "-", "data.csv"}, want: `unexpected argument "data.csv": flags come as -name value (see -h)`},
 	}
 	for _, tt := range tests {
@@ -314,5 +315,48 @@ func TestAbsentHolidays(t *testing.T) {
 	}
 	if strings.Contains(out.String(), "Not estimable even on all rows") {
 		t.Errorf("output reports columns not estimable on all rows, want none:\n%s", out.String())
+	}
+}
+
+// TestBCa runs the BCa interval, whose acceleration needs the extra
+// leave-one-out run, and checks that every coefficient got an interval
+// containing its estimate (BCa endpoints are replicate quantiles, and with
+// 199 replicates of 120 rows they straddle the full-data estimate).
+func TestBCa(t *testing.T) {
+	var b strings.Builder
+	b.WriteString("day,sales\n")
+	for i := range 120 {
+		d := time.Date(2024, 1, 1, 0, 0, 0, 0, time.UTC).AddDate(0, 0, i)
+		b.WriteString(d.Format(time.DateOnly) + "," + strconv.Itoa(100+i%7*3+(i*37)%11) + "\n")
+	}
+	out := t.TempDir()
+	args := []string{"-file", "-", "-date", "day", "-outcome", "sales", "-parts", "weekend,trend:days",
+		"-holidays", "none", "-b", "199", "-interval", "bca", "-out", out}
+	var stdout, stderr bytes.Buffer
+	if err := run(args, strings.NewReader(b.String()), &stdout, &stderr); err != nil {
+		t.Fatalf("%v\n%s", err, stderr.String())
+	}
+	if !strings.Contains(stdout.String(), "95% BCa interval") {
+		t.Fatalf("no BCa interval heading in:\n%s", stdout.String())
+	}
+	for _, col := range []string{"intercept", "weekend", "trend.days"} {
+		line := ""
+		for _, l := range strings.Split(stdout.String(), "\n") {
+			if strings.HasPrefix(l, col+" ") {
+				line = l
+			}
+		}
+		if line == "" {
+			t.Errorf("no row for %s in:\n%s", col, stdout.String())
+			continue
+		}
+		var est, lo, hi float64
+		if _, err := fmt.Sscanf(strings.TrimSpace(strings.TrimPrefix(line, col)), "%g [%g, %g]", &est, &lo, &hi); err != nil {
+			t.Errorf("%s: cannot read %q: %v", col, line, err)
+			continue
+		}
+		if !(lo < est && est < hi) {
+			t.Errorf("%s: BCa interval [%g, %g] does not contain the estimate %g", col, lo, hi, est)
+		}
 	}
 }

@@ -214,13 +214,10 @@ func parseScheme(name string, b, block int, series func() ([]float64, error)) (r
 
 // parseMethod returns the interval method named by -interval.
 func parseMethod(name string) (inspect.Method, error) {
-	for _, m := range []inspect.Method{inspect.Percentile, inspect.Basic, inspect.Normal, inspect.Studentized} {
-		if strings.EqualFold(m.String(), name) {
+	for _, m := range []inspect.Method{inspect.Percentile, inspect.Basic, inspect.Normal, inspect.BCa, inspect.Studentized} {
+		if strings.EqualFold(name, m.String()) {
 			return m, nil
 		}
 	}
-	if strings.EqualFold(name, "bca") {
-		return 0, fmt.Errorf("-interval bca: BCa needs jackknife values, which this program does not compute; use percentile, basic, normal or studentized")
-	}
-	return 0, fmt.Errorf("-interval %q: want percentile, basic, normal or studentized", name)
+	return 0, fmt.Errorf("-interval %q: want percentile, basic, normal, bca or studentized", name)
 }
