@@ -186,7 +186,7 @@ func Acceleration(jackknife []float64) (float64, error) {
 	lo, hi := math.Inf(1), math.Inf(-1)
 	for i, v := range jackknife {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return math.NaN(), fmt.Errorf("%w: jackknife value %d is %v", ErrJackknife, i+1, v)
+			return math.NaN(), fmt.Errorf("%w: jackknife value %d is %v (for a leave-one-out jackknife: the statistic cannot be computed with row %d left out)", ErrJackknife, i+1, v, i+1)
 		}
 		mean += v
 		lo, hi = math.Min(lo, v), math.Max(hi, v)
