@@ -32,6 +32,7 @@ type ConditionError struct {
 	Cond float64
 }
 
+// Error reads "fit: singular design (condition C)".
 func (e *ConditionError) Error() string {
 	return fmt.Sprintf("fit: singular design (condition %.2g)", e.Cond)
 }
@@ -46,6 +47,7 @@ type ConvergenceError struct {
 	Change float64 // relative change in deviance at the last iteration
 }
 
+// Error gives the iterations run and the last relative change.
 func (e *ConvergenceError) Error() string {
 	return fmt.Sprintf("fit: no convergence after %d iterations (relative change %.3g)", e.Iter, e.Change)
 }
@@ -63,6 +65,7 @@ type DataError struct {
 	Err    error   // the reason; wraps ErrBadValue
 }
 
+// Error names the row, the column and the value, then the reason.
 func (e *DataError) Error() string {
 	where := e.Name
 	if where == "" {

@@ -22,6 +22,7 @@ type ReplicateError struct {
 	Err       error
 }
 
+// Error reads "replicate R: reason", or "full-data fit: reason".
 func (e *ReplicateError) Error() string {
 	if e.Replicate < 0 {
 		return "full-data fit: " + e.Err.Error()
@@ -67,6 +68,7 @@ type StopError struct {
 	Err             error
 }
 
+// Error says how many replicates finished before the stop, and why.
 func (e *StopError) Error() string {
 	return fmt.Sprintf("inspect: run stopped after %d of %d replicates: %v", e.Finished, e.Total, e.Err)
 }
