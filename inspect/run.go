@@ -49,7 +49,11 @@ type Options struct {
 	// Fitter is the estimator fitted to the full data and to every
 	// replicate.
 	Fitter fit.Fitter
-	// Scheme draws the replicates; Seed is passed to its Plan.
+	// Scheme draws the replicates; Seed is passed to its Plan. A stratum
+	// or group column goes to the scheme, which holds the rows' labels:
+	// resample.Bootstrap{Strata: resample.ByLabel(labels)} keeps every
+	// stratum's size in each replicate, and resample.Grouped{Groups:
+	// resample.ByLabel(seasons)} draws whole groups.
 	Scheme resample.Scheme
 	Seed   uint64
 	// Workers is the number of goroutines fitting replicates. 0 means
