@@ -136,7 +136,7 @@ func TestAccumulatorShards(t *testing.T) {
 
 func checkAgainstOLS(t *testing.T, what string, got *BatchFit, r int, x *mat.Dense, y, w []float64) {
 	t.Helper()
-	want, err := OLS{}.FitLinear(x, y, w)
+	want, err := OLS{}.FitOLS(x, y, w)
 	if err != nil {
 		t.Fatal(err)
 	}

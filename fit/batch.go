@@ -270,7 +270,7 @@ func (e *batchEngine) fullDataColumns(std Standardization) ([]int, bool) {
 	if e.fullDataSolves(std, all) {
 		return all, true
 	}
-	lm, err := OLS{Tol: e.bt.Tol}.FitLinear(e.x, e.y, e.w)
+	lm, err := OLS{Tol: e.bt.Tol}.FitOLS(e.x, e.y, e.w)
 	if err != nil {
 		return all, false
 	}
@@ -391,14 +391,14 @@ func (e *batchEngine) fallback(r int, cbuf []int32) {
 	}
 	res := e.res
 	res.Fallback[r] = true
-	var lm *LinearModel
+	var lm *OLSFit
 	var err error
 	if e.w == nil {
 		cw := make([]float64, n)
 		for i, c := range cbuf {
 			cw[i] = float64(c)
 		}
-		lm, err = OLS{Weights: Frequency, Tol: e.bt.Tol}.FitLinear(e.x, e.y, cw)
+		lm, err = OLS{Weights: Frequency, Tol: e.bt.Tol}.FitOLS(e.x, e.y, cw)
 	} else {
 		lm, err = e.materialised(cbuf)
 	}
@@ -424,7 +424,7 @@ func (e *batchEngine) fallback(r int, cbuf []int32) {
 
 // materialised fits OLS with precision weights on the replicate with its
 // rows repeated.
-func (e *batchEngine) materialised(cbuf []int32) (*LinearModel, error) {
+func (e *batchEngine) materialised(cbuf []int32) (*OLSFit, error) {
 	p := e.src.p
 	total := 0
 	for _, c := range cbuf {
@@ -450,7 +450,7 @@ func (e *batchEngine) materialised(cbuf []int32) (*LinearModel, error) {
 	if total == 0 {
 		return nil, fmt.Errorf("%w: the replicate has no rows", ErrTooFewRows)
 	}
-	return OLS{Weights: Precision, Tol: e.bt.Tol}.FitLinear(xr, yr, wr)
+	return OLS{Weights: Precision, Tol: e.bt.Tol}.FitOLS(xr, yr, wr)
 }
 
 func (e *batchEngine) fetch(r int, dst []int32) {

@@ -101,7 +101,7 @@ func BenchmarkBatchGenericSmall(b *testing.B) {
 				for i, v := range c {
 					w[i] = float64(v)
 				}
-				if _, err := (OLS{Weights: Frequency}).FitLinear(x, y, w); err != nil {
+				if _, err := (OLS{Weights: Frequency}).FitOLS(x, y, w); err != nil {
 					b.Fatal(err)
 				}
 			}

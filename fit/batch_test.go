@@ -162,7 +162,7 @@ func TestBatchAgreesWithQR(t *testing.T) {
 					fallbacks++
 				}
 				xr, yr, wr := materialise(tt.x, tt.y, tt.w, c)
-				want, err := OLS{}.FitLinear(xr, yr, wr)
+				want, err := OLS{}.FitOLS(xr, yr, wr)
 				if err != nil {
 					t.Fatalf("replicate %d: reference fit: %v", r, err)
 				}
@@ -461,7 +461,7 @@ func TestBatchManyChunks(t *testing.T) {
 		for i, v := range c {
 			cw[i] = float64(v)
 		}
-		want, err := OLS{Weights: Frequency}.FitLinear(x, y, cw)
+		want, err := OLS{Weights: Frequency}.FitOLS(x, y, cw)
 		if err != nil {
 			t.Fatal(err)
 		}

@@ -30,7 +30,7 @@ func benchOLS(b *testing.B, n, p int, o OLS) {
 	x, y := benchDesign(n, p)
 	b.ReportAllocs()
 	for b.Loop() {
-		m, err := o.FitLinear(x, y, nil)
+		m, err := o.FitOLS(x, y, nil)
 		if err != nil {
 			b.Fatal(err)
 		}

@@ -31,7 +31,7 @@ func ExampleOLS_notEstimable() {
 	}), []string{"(intercept)", "week", "holiday"}}
 	y := []float64{102, 105, 109, 110, 115, 117}
 
-	m, err := fit.OLS{}.FitLinear(x, y, nil)
+	m, err := fit.OLS{}.FitOLS(x, y, nil)
 	if err != nil {
 		fmt.Println(err)
 		return

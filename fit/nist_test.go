@@ -208,7 +208,7 @@ func TestNISTLinear(t *testing.T) {
 			if _, p := x.Dims(); p != len(d.coef) {
 				t.Fatalf("design has %d columns, certified values have %d parameters", p, len(d.coef))
 			}
-			m, err := OLS{}.FitLinear(x, d.y, nil)
+			m, err := OLS{}.FitOLS(x, d.y, nil)
 			if err != nil {
 				t.Fatalf("fit: %v", err)
 			}

@@ -11,10 +11,10 @@ import (
 var (
 	_ Fitter           = OLS{}
 	_ FrequencyWeigher = OLS{}
-	_ Predictor        = (*LinearModel)(nil)
-	_ Coefficients     = (*LinearModel)(nil)
-	_ Covariance       = (*LinearModel)(nil)
-	_ Statistics       = (*LinearModel)(nil)
+	_ Predictor        = (*OLSFit)(nil)
+	_ Coefficients     = (*OLSFit)(nil)
+	_ Covariance       = (*OLSFit)(nil)
+	_ Statistics       = (*OLSFit)(nil)
 )
 
 // OLS is the linear least-squares estimator: ordinary least squares with
@@ -67,29 +67,29 @@ func (o OLS) FrequencyWeighted() Fitter {
 }
 
 // Fit fits the linear model y ≈ x·β by weighted least squares and returns
-// a *LinearModel. See [OLS.FitLinear].
+// an *OLSFit. See [OLS.FitOLS].
 func (o OLS) Fit(x mat.Matrix, y, weights []float64) (Predictor, error) {
-	m, err := o.FitLinear(x, y, weights)
+	m, err := o.FitOLS(x, y, weights)
 	if err != nil {
 		return nil, err
 	}
 	return m, nil
 }
 
-// FitLinear fits the linear model y ≈ x·β by weighted least squares.
+// FitOLS fits the linear model y ≈ x·β by weighted least squares.
 //
 // Coefficients are named from x if it implements [Namer], else "x1", "x2",
-// and so on. FitLinear returns a *[DataError] naming the row and column of
+// and so on. FitOLS returns a *[DataError] naming the row and column of
 // a NaN or infinite value in x or y, or of a NaN, infinite or negative
 // weight; an error wrapping [ErrBadValue] if every weight is zero; and one
 // wrapping [ErrTooFewRows] if fewer rows have a positive weight than x has
 // columns that are not constant. Rows with weight zero are not used in the
 // fit but get residuals.
 //
-// FitLinear panics if len(y) differs from the rows of x, if weights is not
+// FitOLS panics if len(y) differs from the rows of x, if weights is not
 // nil and len(weights) != len(y), if x has no columns, or if o.Weights or
 // o.Cov is not a valid kind.
-func (o OLS) FitLinear(x mat.Matrix, y, weights []float64) (*LinearModel, error) {
+func (o OLS) FitOLS(x mat.Matrix, y, weights []float64) (*OLSFit, error) {
 	if o.Weights != Precision && o.Weights != Frequency {
 		panic(fmt.Sprintf("fit: invalid weight kind %d", int(o.Weights)))
 	}
@@ -109,7 +109,7 @@ func (o OLS) FitLinear(x mat.Matrix, y, weights []float64) (*LinearModel, error)
 		}
 		return nil, err
 	}
-	return newLinearModel(ls, names, o.Cov, o.Weights), nil
+	return newOLSFit(ls, names, o.Cov, o.Weights), nil
 }
 
 // rowMajor returns the n×p row-major values of x, without copying when x is
@@ -159,13 +159,13 @@ func columnNames(x mat.Matrix, p int) []string {
 	return names
 }
 
-// LinearModel is a linear model fitted by [OLS]. It is immutable and safe
+// OLSFit is a linear model fitted by [OLS]. It is immutable and safe
 // for concurrent use.
 //
 // Coefficients that are not estimable have NaN estimates, standard errors,
 // t statistics, p-values and intervals; Predict treats them as zero, as a
 // fit without those columns would.
-type LinearModel struct {
+type OLSFit struct {
 	names     []string
 	coef      []float64
 	se        []float64
@@ -179,9 +179,9 @@ type LinearModel struct {
 	cond      float64
 }
 
-func newLinearModel(ls *lsFit, names []string, kind CovKind, wk WeightKind) *LinearModel {
+func newOLSFit(ls *lsFit, names []string, kind CovKind, wk WeightKind) *OLSFit {
 	p := ls.p
-	m := &LinearModel{
+	m := &OLSFit{
 		names:     names,
 		coef:      ls.coef,
 		estimable: ls.estimable,
@@ -254,7 +254,7 @@ func linearStats(ls *lsFit) Stats {
 // count as zero. If dst is nil it is allocated. Predict panics if x does not
 // have one column per coefficient or if dst is not nil and len(dst) differs
 // from the rows of x.
-func (m *LinearModel) Predict(dst []float64, x mat.Matrix) []float64 {
+func (m *OLSFit) Predict(dst []float64, x mat.Matrix) []float64 {
 	n, p := x.Dims()
 	if p != len(m.coef) {
 		panic(fmt.Sprintf("fit: predict: design has %d columns, model has %d", p, len(m.coef)))
@@ -279,7 +279,7 @@ func (m *LinearModel) Predict(dst []float64, x mat.Matrix) []float64 {
 }
 
 // Coefficients returns the coefficients in design-column order.
-func (m *LinearModel) Coefficients() []Coefficient {
+func (m *OLSFit) Coefficients() []Coefficient {
 	out := make([]Coefficient, len(m.coef))
 	for j := range out {
 		out[j] = Coefficient{Name: m.names[j], Estimate: m.coef[j], StdErr: m.se[j], Estimable: m.estimable[j]}
@@ -289,7 +289,7 @@ func (m *LinearModel) Coefficients() []Coefficient {
 
 // NotEstimable returns the names of the columns the data did not identify,
 // in design order (nil if there are none).
-func (m *LinearModel) NotEstimable() []string {
+func (m *OLSFit) NotEstimable() []string {
 	var out []string
 	for j, ok := range m.estimable {
 		if !ok {
@@ -302,21 +302,21 @@ func (m *LinearModel) NotEstimable() []string {
 // Intercept returns the index of the design column detected as the
 // intercept (the first column constant and non-zero over the rows used), or
 // -1 if there is none.
-func (m *LinearModel) Intercept() int { return m.intercept }
+func (m *OLSFit) Intercept() int { return m.intercept }
 
 // CovKind returns the covariance estimator the standard errors use.
-func (m *LinearModel) CovKind() CovKind { return m.covKind }
+func (m *OLSFit) CovKind() CovKind { return m.covKind }
 
 // Condition returns an estimate of the 1-norm condition number of the
 // estimable part of the design after weighting, centring and scaling the
 // columns to unit norm.
-func (m *LinearModel) Condition() float64 { return m.cond }
+func (m *OLSFit) Condition() float64 { return m.cond }
 
 // CovTo writes the coefficient covariance matrix of the kind chosen by the
 // estimator's Cov field into dst and returns it. A nil or empty dst is
 // allocated; otherwise it must be p×p or CovTo panics. Rows and columns of
 // coefficients that are not estimable are NaN.
-func (m *LinearModel) CovTo(dst *mat.SymDense) *mat.SymDense {
+func (m *OLSFit) CovTo(dst *mat.SymDense) *mat.SymDense {
 	p := len(m.coef)
 	if dst == nil {
 		dst = mat.NewSymDense(p, nil)
@@ -336,7 +336,7 @@ func (m *LinearModel) CovTo(dst *mat.SymDense) *mat.SymDense {
 // TStats writes the t statistics (estimate / standard error) into dst and
 // returns it; nil dst is allocated, otherwise len(dst) must be the number
 // of coefficients or TStats panics.
-func (m *LinearModel) TStats(dst []float64) []float64 {
+func (m *OLSFit) TStats(dst []float64) []float64 {
 	dst = m.dst(dst)
 	for j := range dst {
 		dst[j] = m.coef[j] / m.se[j]
@@ -347,8 +347,8 @@ func (m *LinearModel) TStats(dst []float64) []float64 {
 // PValues writes the two-sided p-values of the t statistics into dst and
 // returns it, from Student's t with the residual degrees of freedom (also
 // for the HC covariances, as R's lmtest::coeftest does). dst is as for
-// [LinearModel.TStats].
-func (m *LinearModel) PValues(dst []float64) []float64 {
+// [OLSFit.TStats].
+func (m *OLSFit) PValues(dst []float64) []float64 {
 	dst = m.TStats(dst)
 	for j, t := range dst {
 		dst[j] = studentTwoSided(t, m.stats.ResidDF)
@@ -360,8 +360,8 @@ func (m *LinearModel) PValues(dst []float64) []float64 {
 // intervals at the given level (such as 0.95) into lo and hi and returns
 // them: estimate ± t·SE with t the (1+level)/2 quantile of Student's t with
 // the residual degrees of freedom. lo and hi are as dst for
-// [LinearModel.TStats]. ConfInt panics unless 0 < level < 1.
-func (m *LinearModel) ConfInt(lo, hi []float64, level float64) ([]float64, []float64) {
+// [OLSFit.TStats]. ConfInt panics unless 0 < level < 1.
+func (m *OLSFit) ConfInt(lo, hi []float64, level float64) ([]float64, []float64) {
 	if !(level > 0 && level < 1) {
 		panic(fmt.Sprintf("fit: confidence level %v outside (0, 1)", level))
 	}
@@ -378,7 +378,7 @@ func (m *LinearModel) ConfInt(lo, hi []float64, level float64) ([]float64, []flo
 // unweighted, into dst and returns it (rows with weight zero included).
 // A nil dst is allocated; otherwise its length must be the number of rows
 // or Residuals panics.
-func (m *LinearModel) Residuals(dst []float64) []float64 {
+func (m *OLSFit) Residuals(dst []float64) []float64 {
 	if dst == nil {
 		dst = make([]float64, len(m.resid))
 	} else if len(dst) != len(m.resid) {
@@ -393,9 +393,9 @@ func (m *LinearModel) Residuals(dst []float64) []float64 {
 // for frequency weights; RSquared and AdjRSquared are centred when the
 // model has an intercept and uncentred otherwise; LogLik, AIC and BIC
 // follow R's logLik.lm, counting the residual variance as a parameter.
-func (m *LinearModel) Statistics() Stats { return m.stats }
+func (m *OLSFit) Statistics() Stats { return m.stats }
 
-func (m *LinearModel) dst(dst []float64) []float64 {
+func (m *OLSFit) dst(dst []float64) []float64 {
 	if dst == nil {
 		return make([]float64, len(m.coef))
 	}

@@ -63,7 +63,7 @@ func randDesign(r *rand.Rand, n, k int) (*mat.Dense, []float64) {
 // compareModels checks every coefficient, standard error and statistic of
 // got against want, mapping want's coefficients through idx (got column j
 // is want column idx[j], or -1 for a column that must not be estimable).
-func compareModels(t *testing.T, got, want *LinearModel, idx []int, tol float64) {
+func compareModels(t *testing.T, got, want *OLSFit, idx []int, tol float64) {
 	t.Helper()
 	gc, wc := got.Coefficients(), want.Coefficients()
 	gt, wt := got.PValues(nil), want.PValues(nil)
@@ -121,11 +121,11 @@ func TestOLSNotEstimable(t *testing.T) {
 	idx := []int{0, 1, -1, 2, -1, 3, -1, -1}
 	for _, kind := range allCovKinds {
 		t.Run(kind.String(), func(t *testing.T) {
-			want, err := OLS{Cov: kind}.FitLinear(base, y, nil)
+			want, err := OLS{Cov: kind}.FitOLS(base, y, nil)
 			if err != nil {
 				t.Fatal(err)
 			}
-			got, err := OLS{Cov: kind}.FitLinear(namedDense{x, names}, y, nil)
+			got, err := OLS{Cov: kind}.FitOLS(namedDense{x, names}, y, nil)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -183,7 +183,7 @@ func TestOLSFrequencyWeights(t *testing.T) {
 		}
 		for _, kind := range allCovKinds {
 			t.Run(tc.name+" "+kind.String(), func(t *testing.T) {
-				want, err := OLS{Cov: kind}.FitLinear(ex, ey, nil)
+				want, err := OLS{Cov: kind}.FitOLS(ex, ey, nil)
 				if err != nil {
 					t.Fatal(err)
 				}
@@ -192,7 +192,7 @@ func TestOLSFrequencyWeights(t *testing.T) {
 				if err != nil {
 					t.Fatal(err)
 				}
-				got := p.(*LinearModel)
+				got := p.(*OLSFit)
 				compareModels(t, got, want, idx, 1e-9)
 				var cg, cw mat.SymDense
 				got.CovTo(&cg)
@@ -230,11 +230,11 @@ func TestOLSPrecisionWeights(t *testing.T) {
 	idx := []int{0, 1, 2}
 	for _, kind := range allCovKinds {
 		t.Run("zero weights "+kind.String(), func(t *testing.T) {
-			got, err := OLS{Cov: kind}.FitLinear(x, y, w)
+			got, err := OLS{Cov: kind}.FitOLS(x, y, w)
 			if err != nil {
 				t.Fatal(err)
 			}
-			want, err := OLS{Cov: kind}.FitLinear(sx, sy, sw)
+			want, err := OLS{Cov: kind}.FitOLS(sx, sy, sw)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -249,11 +249,11 @@ func TestOLSPrecisionWeights(t *testing.T) {
 		for i := range c {
 			c[i] = 4
 		}
-		got, err := OLS{}.FitLinear(x, y, c)
+		got, err := OLS{}.FitOLS(x, y, c)
 		if err != nil {
 			t.Fatal(err)
 		}
-		want, _ := OLS{}.FitLinear(x, y, nil)
+		want, _ := OLS{}.FitOLS(x, y, nil)
 		gc, wc := got.Coefficients(), want.Coefficients()
 		for j := range gc {
 			if !near(gc[j].Estimate, wc[j].Estimate, 1e-12) || !near(gc[j].StdErr, wc[j].StdErr, 1e-12) {
@@ -287,7 +287,7 @@ func TestDistributions(t *testing.T) {
 func TestOLSInference(t *testing.T) {
 	r := rand.New(rand.NewPCG(9, 10))
 	x, y := randDesign(r, 30, 2)
-	m, err := OLS{}.FitLinear(x, y, nil)
+	m, err := OLS{}.FitOLS(x, y, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -349,7 +349,7 @@ func TestOLSErrors(t *testing.T) {
 		{name: "too few rows", x: mat.NewDense(4, 3, []float64{1, 1, 1, 1, 2, 4, 1, 3, 9, 1, 4, 16}), y: y, w: []float64{0, 1, 1, 0}, is: ErrTooFewRows, inError: "2 rows with positive weight, 3 columns"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
-			_, err := OLS{}.FitLinear(tc.x, tc.y, tc.w)
+			_, err := OLS{}.FitOLS(tc.x, tc.y, tc.w)
 			if !errors.Is(err, tc.is) {
 				t.Fatalf("got error %v, want one wrapping %v", err, tc.is)
 			}
@@ -371,11 +371,11 @@ func TestOLSErrors(t *testing.T) {
 		{"bad CovKind", func() { OLS{Cov: 9}.Fit(x, y, nil) }},
 		{"bad WeightKind", func() { OLS{Weights: 7}.Fit(x, y, nil) }},
 		{"predict columns", func() {
-			m, _ := OLS{}.FitLinear(x, y, nil)
+			m, _ := OLS{}.FitOLS(x, y, nil)
 			m.Predict(nil, mat.NewDense(2, 3, nil))
 		}},
 		{"interval level", func() {
-			m, _ := OLS{}.FitLinear(x, y, nil)
+			m, _ := OLS{}.FitOLS(x, y, nil)
 			m.ConfInt(nil, nil, 95)
 		}},
 	} {
@@ -390,7 +390,7 @@ func TestOLSErrors(t *testing.T) {
 func TestOLSConcurrent(t *testing.T) {
 	r := rand.New(rand.NewPCG(11, 12))
 	x, y := randDesign(r, 50, 3)
-	want, err := OLS{Cov: HC3}.FitLinear(x, y, nil)
+	want, err := OLS{Cov: HC3}.FitOLS(x, y, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -401,7 +401,7 @@ func TestOLSConcurrent(t *testing.T) {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			m, err := OLS{Cov: HC3}.FitLinear(x, y, nil)
+			m, err := OLS{Cov: HC3}.FitOLS(x, y, nil)
 			if err != nil {
 				errs[g] = err.Error()
 				return

@@ -215,7 +215,7 @@ func TestOLSManyBlocks(t *testing.T) {
 		{name: "frequency weights", w: wts, kind: Frequency},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
-			m, err := OLS{Weights: tc.kind}.FitLinear(x, y, tc.w)
+			m, err := OLS{Weights: tc.kind}.FitOLS(x, y, tc.w)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -313,7 +313,7 @@ func TestOLSPoolReuse(t *testing.T) {
 	}
 	want := make([][]Coefficient, len(jobs))
 	for i, jb := range jobs {
-		m, err := jb.o.FitLinear(jb.x, jb.y, jb.w)
+		m, err := jb.o.FitOLS(jb.x, jb.y, jb.w)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -328,7 +328,7 @@ func TestOLSPoolReuse(t *testing.T) {
 			for rep := range 3 {
 				for i := range jobs {
 					jb := jobs[(i+g+rep)%len(jobs)]
-					m, err := jb.o.FitLinear(jb.x, jb.y, jb.w)
+					m, err := jb.o.FitOLS(jb.x, jb.y, jb.w)
 					if err != nil {
 						errs[g] = err.Error()
 						return

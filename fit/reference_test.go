@@ -346,7 +346,7 @@ func TestOLSAgainstR(t *testing.T) {
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			m, err := tt.o.FitLinear(x, d["y"], tt.w)
+			m, err := tt.o.FitOLS(x, d["y"], tt.w)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -378,7 +378,7 @@ func TestOLSAgainstR(t *testing.T) {
 			for _, k := range []fit.CovKind{fit.HC0, fit.HC1, fit.HC2, fit.HC3} {
 				o := tt.o
 				o.Cov = k
-				mk, err := o.FitLinear(x, d["y"], tt.w)
+				mk, err := o.FitOLS(x, d["y"], tt.w)
 				if err != nil {
 					t.Fatal(err)
 				}

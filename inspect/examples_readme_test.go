@@ -90,7 +90,7 @@ func Example_tourFit() {
 	x.Append("intercept", []float64{1, 1, 1, 1, 1})
 	x.Append("holiday", []float64{0, 0, 1, 0, 1})
 	y := []float64{40, 42, 51, 41, 53}
-	m, err := fit.OLS{}.FitLinear(x, y, nil)
+	m, err := fit.OLS{}.FitOLS(x, y, nil)
 	if err != nil {
 		fmt.Println(err)
 		return

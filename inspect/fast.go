@@ -82,7 +82,7 @@ func (ru *runner) batchPath(fs features.Builder, opts *Options, plan resample.Pl
 
 // batchOLS reports whether Batch reproduces o's replicate fits.
 func batchOLS(o fit.OLS, full fit.Predictor) bool {
-	_, ok := full.(*fit.LinearModel)
+	_, ok := full.(*fit.OLSFit)
 	return ok && o.Weights == fit.Frequency && o.Cov == fit.Classical
 }
 

@@ -112,7 +112,7 @@ func olsReplicates(t *testing.T, spec *Spec, rows []Row, seed uint64, B int) []f
 		for i, c := range sp.Counts {
 			w[i] = float64(c)
 		}
-		m, err := fit.OLS{Weights: fit.Frequency}.FitLinear(x, y, w)
+		m, err := fit.OLS{Weights: fit.Frequency}.FitOLS(x, y, w)
 		if err != nil {
 			t.Fatalf("replicate %d: %v", r, err)
 		}

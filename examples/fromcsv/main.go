@@ -190,7 +190,7 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	// The residuals of a first least-squares fit, in row order, choose the
 	// block length of the block schemes when -block is 0.
 	series := func() ([]float64, error) {
-		m, err := fit.OLS{}.FitLinear(full, d.Outcome, nil)
+		m, err := fit.OLS{}.FitOLS(full, d.Outcome, nil)
 		if err != nil {
 			return nil, err
 		}

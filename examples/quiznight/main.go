@@ -121,7 +121,7 @@ func run(args []string, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	first, err := fit.OLS{}.FitLinear(x, d.Outcome, nil)
+	first, err := fit.OLS{}.FitOLS(x, d.Outcome, nil)
 	if err != nil {
 		return err
 	}

@@ -37,7 +37,7 @@ var _ fit.Fitter = Huber{}
 // whose Predict and Coefficients it offers, with the robust scale, the share
 // of rows (by weight) whose weight was reduced, and the iterations run.
 type HuberFit struct {
-	*fit.LinearModel
+	*fit.OLSFit
 	Scale, DownWeighted float64
 	Iter                int
 }
@@ -48,7 +48,7 @@ type HuberFit struct {
 // below 1e-12 max|y| counts as zero.
 func (h Huber) Fit(x mat.Matrix, y, w []float64) (fit.Predictor, error) {
 	k, maxIter, tol := cmp.Or(h.K, 1.345), cmp.Or(h.MaxIter, 50), cmp.Or(h.Tol, 1e-10)
-	m, err := fit.OLS{}.FitLinear(x, y, w)
+	m, err := fit.OLS{}.FitOLS(x, y, w)
 	if err != nil {
 		return nil, err
 	}
@@ -71,14 +71,14 @@ func (h Huber) Fit(x mat.Matrix, y, w []float64) (fit.Predictor, error) {
 				down += wi
 			}
 		}
-		next, err := fit.OLS{}.FitLinear(x, y, hw)
+		next, err := fit.OLS{}.FitOLS(x, y, hw)
 		if err != nil {
 			return nil, err
 		}
 		change := maxChange(m.Coefficients(), next.Coefficients())
 		m = next
 		if change <= tol {
-			return &HuberFit{LinearModel: m, Scale: s, DownWeighted: down / total, Iter: iter}, nil
+			return &HuberFit{OLSFit: m, Scale: s, DownWeighted: down / total, Iter: iter}, nil
 		}
 		if iter == maxIter {
 			return nil, &fit.ConvergenceError{Iter: iter, Change: change}

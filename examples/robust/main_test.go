@@ -131,7 +131,7 @@ func TestHuberCountsAreRows(t *testing.T) {
 
 func TestHuberLimits(t *testing.T) {
 	x, y := rlmData(t)
-	ols, err := fit.OLS{}.FitLinear(x, y, nil)
+	ols, err := fit.OLS{}.FitOLS(x, y, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
