@@ -156,24 +156,29 @@ func run(args []string, stdout, stderr io.Writer) error {
 	// The report.
 	p := func(format string, a ...any) { fmt.Fprintf(stdout, format, a...) }
 	first1, last := rows[0].Date, rows[len(rows)-1].Date
-	specials := 0
+	onHoliday, specials := 0, 0
 	for _, r := range rows {
+		if r.Holiday != "" {
+			onHoliday++
+		}
 		if r.Date.Weekday() != time.Thursday {
 			specials++
 		}
 	}
 	p("Thursday Quiz Night on Harrowmere Community Radio: what moves the audience?\n")
 	p("An invented station's live quiz, every Thursday and every England & Wales bank holiday, %d–%d:\n", first1.Year(), last.Year())
-	p("%d broadcasts (%d holiday specials), audience in thousands, simulated with known true effects.\n\n", len(rows), specials)
+	p("%d broadcasts, %d on a bank holiday (%d specials, %d regular Thursdays), audience in thousands,\n",
+		len(rows), onHoliday, specials, onHoliday-specials)
+	p("simulated with known true effects.\n\n")
 
 	p("Model: least squares on an intercept, a trend, the season (sine and cosine of the month) and\n")
 	p("one indicator per holiday. Intervals: %g%% percentile, from %d stationary-bootstrap replicates\n", 100*level, res.Total)
 	p("(mean block %.1f broadcasts, seed %d), in blocks because the noise is autocorrelated: residuals\n", blockLen, o.seed)
 	p("of neighbouring broadcasts correlate at %.2f, and resampling single rows would make the\n", lag1(resid))
-	p("intervals too narrow. The last column counts each holiday's specials in the data.\n\n")
+	p("intervals too narrow. The last column counts each holiday's broadcasts in the data.\n\n")
 
-	p("%-35s %6s %8s  %-17s %-12s %s\n", "effect (thousand listeners)", "true", "estimate",
-		fmt.Sprintf("%g%% interval", 100*level), "estimable in", "specials")
+	p("%-35s %6s %8s  %-17s %-12s  %10s\n", "effect (thousand listeners)", "true", "estimate",
+		fmt.Sprintf("%g%% interval", 100*level), "estimable in", "broadcasts")
 	var oneOff []string
 	for _, e := range effects {
 		iv := "(none: see below)"
@@ -191,7 +196,7 @@ func run(args []string, stdout, stderr io.Writer) error {
 		line := fmt.Sprintf("%-35s %6.2f %8.2f  %-17s %4d of %-4d", e.Label, e.True, e.Summary.Estimate, iv,
 			e.Summary.Used, e.Summary.Replicates)
 		if e.Holiday {
-			line += fmt.Sprintf(" %5d", e.Broadcasts)
+			line += fmt.Sprintf("   %10d", e.Broadcasts)
 		}
 		p("%s\n", strings.TrimRight(line, " "))
 	}

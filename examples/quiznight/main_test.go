@@ -255,3 +255,37 @@ func TestLag1(t *testing.T) {
 		t.Errorf("lag1 = %v, want %v", got, want)
 	}
 }
+
+// TestDemoCountsAgree checks that the holiday broadcasts counted in the
+// report's header are those of the table's last column, and that the
+// specials and regular Thursdays among them add up.
+func TestDemoCountsAgree(t *testing.T) {
+	stdout, _ := runDemo(t, 19)
+	head := regexp.MustCompile(`(\d+) broadcasts, (\d+) on a bank holiday \((\d+) specials, (\d+) regular Thursdays\)`).FindStringSubmatch(stdout)
+	if head == nil {
+		t.Fatalf("no broadcast counts in the header:\n%s", stdout)
+	}
+	atoi := func(s string) int {
+		v, err := strconv.Atoi(s)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return v
+	}
+	onHoliday, specials, thursdays := atoi(head[2]), atoi(head[3]), atoi(head[4])
+	if specials+thursdays != onHoliday {
+		t.Errorf("header: %d specials + %d Thursdays, want the %d holiday broadcasts", specials, thursdays, onHoliday)
+	}
+	last := regexp.MustCompile(` of \d+\s+(\d+)$`)
+	sum, lines := 0, 0
+	for _, l := range strings.Split(stdout, "\n") {
+		if m := last.FindStringSubmatch(l); m != nil {
+			sum += atoi(m[1])
+			lines++
+		}
+	}
+	if lines != len(trueUplift) || sum != onHoliday {
+		t.Errorf("last column: %d holiday lines summing to %d, want %d lines summing to %d (the header's count)",
+			lines, sum, len(trueUplift), onHoliday)
+	}
+}
