@@ -352,7 +352,7 @@ func TestConcurrent(t *testing.T) {
 				if r.code == "GR" {
 					markOrthodox(srcs)
 				}
-				out = append(out, &Almanac{code: r.code, compute: func(y int) []Holiday { return computeYear(srcs, y) }})
+				out = append(out, &Almanac{code: r.code, compute: func() [][]Holiday { return computeYears(srcs, firstYear, lastYear) }})
 			}
 		}
 		return out

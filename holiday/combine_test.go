@@ -135,7 +135,7 @@ func TestCombineCustomOneOff(t *testing.T) {
 // and checks that the result matches the published 2022 list.
 func TestStateFuneralAsCustom(t *testing.T) {
 	srcs := snapshot(gbHolidaysRaw())
-	raw := &Almanac{code: "GB-RAW", compute: func(y int) []Holiday { return computeYear(srcs, y) }}
+	raw := &Almanac{code: "GB-RAW", compute: func() [][]Holiday { return computeYears(srcs, firstYear, lastYear) }}
 	funeral, err := New("GB-EXTRA", Rule{Name: "State Funeral of Queen Elizabeth II", Kind: OneOff,
 		Dates: []time.Time{time.Date(2022, 9, 19, 9, 30, 0, 0, time.FixedZone("BST", 3600))}})
 	if err != nil {

@@ -175,14 +175,12 @@ var countries = func() map[string]*Almanac {
 	for _, r := range regions {
 		srcs := patch(r.code, snapshot(r.list))
 		orthodox := orthodoxCountries[strings.SplitN(r.code, "-", 2)[0]]
-		marked := false
-		m[r.code] = &Almanac{code: r.code, compute: func(y int) []Holiday {
-			// compute runs only inside the Almanac's sync.Once, in one goroutine.
-			if orthodox && !marked {
+		m[r.code] = &Almanac{code: r.code, compute: func() [][]Holiday {
+			// compute runs once, inside the Almanac's sync.Once.
+			if orthodox {
 				markOrthodox(srcs)
-				marked = true
 			}
-			return computeYear(srcs, y)
+			return computeYears(srcs, firstYear, lastYear)
 		}}
 	}
 	return m

@@ -94,7 +94,7 @@ type Calendar interface {
 // and safe for concurrent use; the zero value is not usable.
 type Almanac struct {
 	code    string
-	compute func(year int) []Holiday
+	compute func() [][]Holiday // years firstYear…lastYear
 	once    sync.Once
 	tab     *table
 
@@ -130,11 +130,7 @@ type table struct {
 
 func (a *Almanac) table() *table {
 	a.once.Do(func() {
-		years := make([][]Holiday, lastYear-firstYear+1)
-		for y := firstYear; y <= lastYear; y++ {
-			years[y-firstYear] = a.compute(y)
-		}
-		a.tab = tabulate(years)
+		a.tab = tabulate(a.compute())
 	})
 	return a.tab
 }
@@ -231,7 +227,7 @@ func New(code string, rules ...Rule) (*Almanac, error) {
 	if len(srcs) == 0 {
 		return nil, fmt.Errorf("%w: New(%q) was given no rules", ErrEmpty, code)
 	}
-	return &Almanac{code: code, compute: func(y int) []Holiday { return computeYear(srcs, y) }}, nil
+	return &Almanac{code: code, compute: func() [][]Holiday { return computeYears(srcs, firstYear, lastYear) }}, nil
 }
 
 // coder is implemented by calendars that carry a code, such as *Almanac.

@@ -83,12 +83,37 @@ func TestSubstituteCollisions(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	// Substitutes that cross New Year, by the rules' definitions (weekdays
+	// checked with Python's datetime): 1 January 2022 is a Saturday,
+	// 31 December 2022 is a Saturday, 1 January 2023 a Sunday,
+	// 31 December 2023 a Sunday and 1 January 2024 a Monday. The
+	// substitute for a late-December holiday must skip the next year's
+	// days off, and the next year's substitutes must skip it.
+	eve, err := New("E",
+		Rule{Name: "New Year's Eve", Month: time.December, Day: 31, Substitute: NextWeekday},
+		Rule{Name: "New Year's Day", Month: time.January, Day: 1, Substitute: NextWeekday})
+	if err != nil {
+		t.Fatal(err)
+	}
+	eveSunday, err := New("S",
+		Rule{Name: "New Year's Eve", Month: time.December, Day: 31, Substitute: SundayToMonday},
+		Rule{Name: "New Year's Day", Month: time.January, Day: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
 	for _, tt := range []struct {
 		name string
 		cal  Calendar
 		year int
 		want []string
 	}{
+		// 2022: New Year's Day (Saturday) takes Monday 3 January and the Eve
+		// (Saturday) Monday 2 January 2023; in 2023 New
+		// Year's Day (Sunday) then takes Tuesday 3, and the Eve (Sunday)
+		// skips Monday 1 January 2024, New Year's Day, for Tuesday 2.
+		{"New Year's Eve Saturday", eve, 2022, []string{"2022-01-01→01-03 New Year's Day", "2022-12-31→01-02 New Year's Eve"}},
+		{"New Year's Day after a substitute", eve, 2023, []string{"2023-01-01→01-03 New Year's Day", "2023-12-31→01-02 New Year's Eve"}},
+		{"SundayToMonday onto New Year's Day", eveSunday, 2023, []string{"2023-01-01→01-01 New Year's Day", "2023-12-31→01-02 New Year's Eve"}},
 		{"Christmas Saturday", xmas, 2021, []string{"2021-12-25→12-27 Christmas Day", "2021-12-26→12-28 Boxing Day"}},
 		{"Christmas Sunday", xmas, 2022, []string{"2022-12-25→12-27 Christmas Day", "2022-12-26→12-26 Boxing Day"}},
 		{"Christmas Friday", xmas, 2026, []string{"2026-12-25→12-25 Christmas Day", "2026-12-26→12-28 Boxing Day"}},

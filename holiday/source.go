@@ -61,7 +61,7 @@ func markOrthodox(srcs []source) {
 	}
 }
 
-// occurrence is an entry of computeYear's working list.
+// occurrence is an entry of computeYears' working list.
 type occurrence struct {
 	name     string
 	act, obs int
@@ -73,11 +73,9 @@ func isWeekend(z int) bool {
 	return w == time.Saturday || w == time.Sunday
 }
 
-// computeYear returns the holidays of srcs whose actual date lies in year.
-// Rules with NextWeekday and SundayToMonday are placed last, in source
-// order, on the first day not already taken by another holiday's day off.
-func computeYear(srcs []source, year int) []Holiday {
-	var occs []occurrence
+// rawYear appends to dst the occurrences of srcs whose actual date lies in
+// year, with NextWeekday and SundayToMonday substitutes not yet placed.
+func rawYear(dst []occurrence, srcs []source, year int) []occurrence {
 	var buf []int
 	for _, s := range srcs {
 		if s.h != nil {
@@ -97,7 +95,7 @@ func computeYear(srcs []source, year int) []Holiday {
 					}
 				}
 			}
-			occs = append(occs, occurrence{name: c.Name, act: act, obs: obs})
+			dst = append(dst, occurrence{name: c.Name, act: act, obs: obs})
 			continue
 		}
 		buf = s.r.occurrences(buf[:0], year)
@@ -119,31 +117,58 @@ func computeYear(srcs []source, year int) []Holiday {
 					o.pending = SundayToMonday
 				}
 			}
-			occs = append(occs, o)
+			dst = append(dst, o)
 		}
 	}
-	taken := make(map[int]bool, len(occs))
-	for _, o := range occs {
-		if o.pending == NoSubstitute {
-			taken[o.obs] = true
-		}
-	}
+	return dst
+}
+
+// computeYears returns, for each year from first to last, the holidays of
+// srcs whose actual date lies in that year, sorted by actual date.
+//
+// Rules with NextWeekday and SundayToMonday are placed last, year by year
+// (earlier years first) and within a year in source order, on the first
+// day that is not already a day off: neither another holiday's fixed day
+// off, in any year, nor a substitute placed before. So a late-December
+// substitute that spills into January skips the next year's days off, and
+// the next year's substitutes skip it. The years first−1 and last+1 are
+// computed too, for the days off they contribute.
+func computeYears(srcs []source, first, last int) [][]Holiday {
+	occs := make([][]occurrence, last-first+3) // first−1 … last+1
 	for i := range occs {
-		o := &occs[i]
-		if o.pending == NoSubstitute {
-			continue
-		}
-		z := o.act + 1
-		for taken[z] || (o.pending == NextWeekday && isWeekend(z)) {
-			z++
-		}
-		o.obs = z
-		taken[z] = true
+		occs[i] = rawYear(nil, srcs, first-1+i)
 	}
-	slices.SortStableFunc(occs, func(a, b occurrence) int { return a.act - b.act })
-	out := make([]Holiday, len(occs))
-	for i, o := range occs {
-		out[i] = Holiday{Name: o.name, Date: civilTime(o.act), Observed: civilTime(o.obs)}
+	taken := make(map[int]bool)
+	for _, year := range occs {
+		for _, o := range year {
+			if o.pending == NoSubstitute {
+				taken[o.obs] = true
+			}
+		}
+	}
+	for _, year := range occs {
+		for i := range year {
+			o := &year[i]
+			if o.pending == NoSubstitute {
+				continue
+			}
+			z := o.act + 1
+			for taken[z] || (o.pending == NextWeekday && isWeekend(z)) {
+				z++
+			}
+			o.obs = z
+			taken[z] = true
+		}
+	}
+	out := make([][]Holiday, last-first+1)
+	for i := range out {
+		year := occs[i+1]
+		slices.SortStableFunc(year, func(a, b occurrence) int { return a.act - b.act })
+		hs := make([]Holiday, len(year))
+		for k, o := range year {
+			hs[k] = Holiday{Name: o.name, Date: civilTime(o.act), Observed: civilTime(o.obs)}
+		}
+		out[i] = hs
 	}
 	return out
 }
