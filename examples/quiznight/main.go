@@ -437,7 +437,8 @@ func writeBroadcasts(w io.Writer, rows []broadcast) error {
 	return cw.Error()
 }
 
-// writeEffects writes the report's table: true values next to estimates.
+// writeEffects writes the report's table: true values next to estimates,
+// with the same intervals (none for the one-off days).
 func writeEffects(w io.Writer, effects []effect) error {
 	cw := csv.NewWriter(w)
 	cw.Write([]string{"column", "effect", "true", "estimate", "method", "level", "lower", "upper",
@@ -449,9 +450,15 @@ func writeEffects(w io.Writer, effects []effect) error {
 		return strconv.FormatFloat(v, 'g', -1, 64)
 	}
 	for _, e := range effects {
-		cw.Write([]string{e.Name, e.Label, f(e.True), f(e.Summary.Estimate), inspect.Percentile.String(), f(level),
-			f(e.Interval.Lower), f(e.Interval.Upper), strconv.Itoa(e.Summary.Used), strconv.Itoa(e.Summary.Replicates),
-			strconv.Itoa(e.Broadcasts), strconv.FormatBool(inside(e))})
+		// As in the report, a one-off day (or an interval that could not
+		// be computed) has no interval: the columns are left empty.
+		method, lev, lower, upper, in := "", "", "", "", ""
+		if e.Broadcasts > 1 && e.Interval.Err == nil {
+			method, lev, lower, upper = inspect.Percentile.String(), f(level), f(e.Interval.Lower), f(e.Interval.Upper)
+			in = strconv.FormatBool(inside(e))
+		}
+		cw.Write([]string{e.Name, e.Label, f(e.True), f(e.Summary.Estimate), method, lev, lower, upper,
+			strconv.Itoa(e.Summary.Used), strconv.Itoa(e.Summary.Replicates), strconv.Itoa(e.Broadcasts), in})
 	}
 	cw.Flush()
 	return cw.Error()

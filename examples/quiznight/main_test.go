@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"encoding/csv"
 	"errors"
 	"flag"
 	"math"
@@ -287,5 +288,55 @@ func TestDemoCountsAgree(t *testing.T) {
 	if lines != len(trueUplift) || sum != onHoliday {
 		t.Errorf("last column: %d holiday lines summing to %d, want %d lines summing to %d (the header's count)",
 			lines, sum, len(trueUplift), onHoliday)
+	}
+}
+
+// TestEffectsFile checks that effects.csv, which the report calls "the
+// table above", has the report's intervals: the same endpoints to the
+// printed two decimals, and none for the one-off days.
+func TestEffectsFile(t *testing.T) {
+	stdout, dir := runDemo(t, 49)
+	printed := map[string]reportLine{}
+	for _, r := range parseReport(t, stdout) {
+		printed[r.label] = r
+	}
+	f, err := os.Open(filepath.Join(dir, "effects.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	recs, err := csv.NewReader(f).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	col := map[string]int{}
+	for j, h := range recs[0] {
+		col[h] = j
+	}
+	if len(recs)-1 != len(printed) {
+		t.Fatalf("effects.csv has %d rows, the report %d lines", len(recs)-1, len(printed))
+	}
+	for _, rec := range recs[1:] {
+		label := rec[col["effect"]]
+		r, ok := printed[label]
+		if !ok {
+			t.Errorf("effects.csv row %q is not in the report", label)
+			continue
+		}
+		lower, upper, in := rec[col["lower"]], rec[col["upper"]], rec[col["true_inside"]]
+		if !r.hasInterval {
+			if lower != "" || upper != "" || in != "" || rec[col["method"]] != "" {
+				t.Errorf("%s: effects.csv has interval %q–%q (true_inside %q), want none as in the report", label, lower, upper, in)
+			}
+			continue
+		}
+		lo, err1 := strconv.ParseFloat(lower, 64)
+		hi, err2 := strconv.ParseFloat(upper, 64)
+		if err1 != nil || err2 != nil || math.Abs(lo-r.lower) > 0.005+1e-9 || math.Abs(hi-r.upper) > 0.005+1e-9 {
+			t.Errorf("%s: effects.csv interval %q–%q, want the printed [%.2f, %.2f] (±0.005)", label, lower, upper, r.lower, r.upper)
+		}
+		if want := strconv.FormatBool(r.lower <= r.true && r.true <= r.upper); in != want {
+			t.Errorf("%s: true_inside %q, want %q", label, in, want)
+		}
 	}
 }
