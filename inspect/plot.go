@@ -124,8 +124,10 @@ var (
 // panel per statistic, each with its own scale, marking the full-data
 // estimate (solid line) and the chosen interval of its summary (dashed
 // lines). sums[i] must be the [Summary] of stats[i]. Failed and
-// not-estimable replicates are left out and counted in the panel's title.
-// Titles and axis labels are wrapped to fit their panel, breaking long
+// not-estimable replicates are left out and counted in the panel's title,
+// which also gives the estimate and the interval in fixed point (such as
+// "10,780"), to four significant digits or as many as the interval's
+// width needs. Titles and axis labels are wrapped to fit their panel, breaking long
 // names after "_", "-", ".", "/" or "=" and, where a word has no such
 // place, cutting it short with an ellipsis; tick labels are thinned until
 // they do not touch.
@@ -249,7 +251,8 @@ func histogram(st Statistic, s Summary, c plotConfig, width vg.Length) (*plot.Pl
 		title += fmt.Sprintf("\n%v interval not computable", iv.Method)
 	default:
 		desc = fmt.Sprintf("%g%% %v", 100*iv.Level, iv.Method)
-		title += fmt.Sprintf("\nestimate %.4g, %s [%.4g, %.4g]", st.Estimate, desc, iv.Lower, iv.Upper)
+		num := titleNumbers(st.Estimate, iv.Lower, iv.Upper)
+		title += fmt.Sprintf("\nestimate %s, %s [%s, %s]", num[0], desc, num[1], num[2])
 		for _, x := range [2]float64{iv.Lower, iv.Upper} {
 			if err := vline(x, intervalColor, true); err != nil {
 				return nil, "", fmt.Errorf("inspect: Histograms: %s: %w", name, err)
@@ -515,4 +518,84 @@ func (f *Figure) Save(path string) (err error) {
 		}
 	}()
 	return write(out)
+}
+
+// titleNumbers formats a panel title's estimate and interval endpoints in
+// fixed point, all to the same decimal place: four significant digits of
+// the largest magnitude, or more where the interval is so narrow that two
+// significant digits of its width need them (at most ten significant
+// digits), rounded to tens, hundreds and so on when that place is left
+// of the decimal point. Integer parts of 10,000 and more are grouped in
+// thousands with commas. Magnitudes below 10⁻⁴ or from 10¹² on, which
+// fixed point would spell out in a dozen zeros, keep exponent notation
+// (four significant digits).
+func titleNumbers(est, lo, hi float64) [3]string {
+	vals := [3]float64{est, lo, hi}
+	var out [3]string
+	m := 0.0
+	for _, v := range vals {
+		if finite(v) {
+			m = math.Max(m, math.Abs(v))
+		}
+	}
+	if m != 0 && (m < 1e-4 || m >= 1e12) {
+		for k, v := range vals {
+			out[k] = strconv.FormatFloat(v, 'g', 4, 64)
+		}
+		return out
+	}
+	dec := 3
+	if m > 0 {
+		dec = 3 - int(math.Floor(math.Log10(m)))
+		if w := hi - lo; w > 0 && finite(w) {
+			dec = min(max(dec, 1-int(math.Floor(math.Log10(w)))), dec+6)
+		}
+	}
+	for k, v := range vals {
+		if !finite(v) {
+			out[k] = strconv.FormatFloat(v, 'g', -1, 64)
+			continue
+		}
+		var s string
+		if dec >= 0 {
+			s = strconv.FormatFloat(v, 'f', dec, 64)
+		} else {
+			unit := math.Pow(10, float64(-dec))
+			s = strconv.FormatFloat(math.Round(v/unit)*unit, 'f', 0, 64)
+		}
+		if strings.Trim(s, "-0.") == "" {
+			s = strings.TrimPrefix(s, "-") // no "-0.000"
+		}
+		out[k] = s
+	}
+	if m >= 1e4 {
+		for k, s := range out {
+			out[k] = groupThousands(s)
+		}
+	}
+	return out
+}
+
+// groupThousands inserts a comma between every three digits of the
+// integer part of a fixed-point number.
+func groupThousands(s string) string {
+	sign := ""
+	if strings.HasPrefix(s, "-") {
+		sign, s = "-", s[1:]
+	}
+	frac := ""
+	if i := strings.IndexByte(s, '.'); i >= 0 {
+		s, frac = s[:i], s[i:]
+	}
+	if len(s) <= 3 || strings.Trim(s, "0123456789") != "" {
+		return sign + s + frac
+	}
+	var b strings.Builder
+	for i, c := range s {
+		if i > 0 && (len(s)-i)%3 == 0 {
+			b.WriteByte(',')
+		}
+		b.WriteRune(c)
+	}
+	return sign + b.String() + frac
 }

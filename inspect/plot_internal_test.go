@@ -174,3 +174,60 @@ func TestNiceTicksSpacing(t *testing.T) {
 		})
 	}
 }
+
+// TestTitleNumbers checks the fixed-point numbers of a histogram panel's
+// title: four significant digits of the largest of estimate and
+// endpoints, more decimals when the interval is narrower than that shows,
+// rounded to that many significant digits (never spurious trailing
+// digits), thousands grouped with commas from 10,000, and exponent notation only
+// for magnitudes fixed point cannot show in a title.
+func TestTitleNumbers(t *testing.T) {
+	tests := []struct {
+		name         string
+		est, lo, hi  float64
+		want0, want1 string
+		want2        string
+	}{
+		{"audience-sized", 10780.4, 10020.2, 11540.9, "10,780", "10,020", "11,540"},
+		{"millions", 1234567.8, 1100000, 1400000, "1,235,000", "1,100,000", "1,400,000"},
+		{"hundreds", 237.94, 201.5, 270.02, "237.9", "201.5", "270.0"},
+		{"narrow interval", 12.3457, 12.30, 12.39, "12.346", "12.300", "12.390"},
+		{"share", 0.2345678, 0.1, 0.35, "0.2346", "0.1000", "0.3500"},
+		{"negative", -3.2, -5.1, -1.3, "-3.200", "-5.100", "-1.300"},
+		{"no negative zero", 0, -0.0001, 2, "0.000", "0.000", "2.000"},
+		{"tiny", 2.5e-7, 1e-7, 4e-7, "2.5e-07", "1e-07", "4e-07"},
+		{"huge", 3e12, 2e12, 4e12, "3e+12", "2e+12", "4e+12"},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			got := titleNumbers(tt.est, tt.lo, tt.hi)
+			want := [3]string{tt.want0, tt.want1, tt.want2}
+			if got != want {
+				t.Errorf("titleNumbers(%v, %v, %v): got %q, want %q", tt.est, tt.lo, tt.hi, got, want)
+			}
+		})
+	}
+}
+
+// TestHistogramTitleFixedPoint checks that a panel title shows large
+// values in fixed point (the audience counts of a broadcast are in the
+// tens of thousands), not in exponent notation.
+func TestHistogramTitleFixedPoint(t *testing.T) {
+	g := rand.New(rand.NewPCG(5, 6))
+	st := Statistic{Name: "audience", Estimate: 10780}
+	for range 999 {
+		st.Values = append(st.Values, 10780+400*g.NormFloat64())
+	}
+	s, err := Summarize(st, Config{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	f, err := Histograms([]Statistic{st}, []Summary{s}, PlotSize(30*vg.Centimeter, 10*vg.Centimeter))
+	if err != nil {
+		t.Fatal(err)
+	}
+	title := strings.ReplaceAll(f.panels[0][0].Title.Text, "\n", " ")
+	if strings.Contains(title, "e+") || !strings.Contains(title, "estimate 10,780,") {
+		t.Errorf("got title %q, want the estimate as \"10,780\" and no exponent", title)
+	}
+}
