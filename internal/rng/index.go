@@ -37,7 +37,7 @@ func (h *Halves) word() uint32 {
 // IntN returns a uniform integer in [0, n). It panics if n is not in
 // (0, 2³²).
 func (h *Halves) IntN(n int) int {
-	if n <= 0 || n >= 1<<32 {
+	if n <= 0 || uint64(n) >= 1<<32 {
 		panic("rng: Halves.IntN: n out of range")
 	}
 	n32 := uint32(n)

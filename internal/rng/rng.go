@@ -12,8 +12,10 @@ import (
 	"math/rand/v2"
 )
 
-// Mix is the SplitMix64 finaliser (Steele, Lea & Flood 2014): a bijection
-// of uint64 with good avalanche.
+// Mix returns what SplitMix64 (Steele, Lea & Flood 2014; S. Vigna's
+// splitmix64.c) outputs from state z: z is advanced by the golden-ratio
+// increment 0x9e3779b97f4a7c15 and then finalised. It is a bijection of
+// uint64 with good avalanche.
 func Mix(z uint64) uint64 {
 	z += 0x9e3779b97f4a7c15
 	z = (z ^ (z >> 30)) * 0xbf58476d1ce4e5b9
