@@ -2,15 +2,9 @@ package inspect
 
 import (
 	"context"
-	"errors"
 	"fmt"
 	"sync/atomic"
 )
-
-// ErrNotRun marks a replicate that a stopped run (cancelled, or stopped at
-// the first failure) never delivered: [Result.Errs] and [Kept.Errs] hold it
-// for those replicates, so that no replicate is missing without a reason.
-var ErrNotRun = errors.New("inspect: replicate not run")
 
 // ReplicateError is the failure of one replicate: its learn, fit, encoding or
 // prediction failed, or one of its callbacks returned an error or panicked.

@@ -6,14 +6,6 @@ import (
 	"math"
 )
 
-// ErrNoVariance reports observed values with no spread (or fewer than 2),
-// for which R² is undefined.
-var ErrNoVariance = errors.New("inspect: observed values have no variance, R² undefined")
-
-// ErrNoOutOfBag reports that no row was ever out of bag, so no
-// out-of-bag error can be estimated.
-var ErrNoOutOfBag = errors.New("inspect: no row is out of bag in any replicate")
-
 // Metrics holds prediction error measures over a set of rows.
 type Metrics struct {
 	// N is the number of rows.
@@ -64,8 +56,6 @@ func Measure(observed, predicted []float64) (Metrics, error) {
 	m.R2 = 1 - sse/sst
 	return m, nil
 }
-
-var errNotFinite = errors.New("not finite")
 
 func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
 
