@@ -223,8 +223,9 @@ func run(args []string, stdout, stderr io.Writer) error {
 		return err
 	}
 	p("Written to %s: broadcasts.csv (the invented data), effects.csv (the table above),\n", o.out)
-	p("coefficients.csv/.json and error.csv/.json (every interval and count, long format),\n")
-	p("coefficients.svg/.png (replicate histograms), observed_vs_predicted.svg/.png.\n")
+	p("coefficients.csv/.json (every interval method and count, long format), error.csv/.json (the\n")
+	p("out-of-bag error; its estimate column is the in-sample value), coefficients.svg/.png (replicate\n")
+	p("histograms, one-off days left out), observed_vs_predicted.svg/.png.\n")
 	return nil
 }
 
@@ -386,17 +387,23 @@ func writeOutputs(dir string, rows []broadcast, effects []effect, sums []inspect
 		}
 	}
 
-	// Plots: the holiday coefficients' replicates, and each broadcast's
-	// audience against its mean out-of-bag prediction.
+	// Plots: the replicates of every coefficient but the one-off days',
+	// and each broadcast's audience against its mean out-of-bag
+	// prediction. The panels carry the report's labels. The coefficients
+	// do not share one unit (the trend's is thousand listeners per year),
+	// so the title gives the units rather than every x axis.
 	var hs []inspect.Statistic
 	var hsum []inspect.Summary
 	for i, st := range stats {
 		if effects[i].Broadcasts > 1 {
-			hs, hsum = append(hs, st), append(hsum, sums[i])
+			sum := sums[i]
+			st.Name, sum.Name = panelName(effects[i]), panelName(effects[i])
+			hs, hsum = append(hs, st), append(hsum, sum)
 		}
 	}
-	hist, err := inspect.Histograms(hs, hsum, inspect.PlotMark(inspect.Percentile), inspect.PlotUnit("thousand listeners"),
-		inspect.PlotColumns(4), inspect.PlotTitle("Bootstrap replicates of each coefficient (solid: full-data estimate; dashed: 95% percentile interval)"))
+	hist, err := inspect.Histograms(hs, hsum, inspect.PlotMark(inspect.Percentile), inspect.PlotColumns(4),
+		inspect.PlotTitle(fmt.Sprintf("Bootstrap replicates of each coefficient, in thousand listeners (the trend in thousand "+
+			"listeners per year); solid: full-data estimate; dashed: %g%% percentile interval", 100*level)))
 	if err != nil {
 		return err
 	}
@@ -423,6 +430,14 @@ func writeOutputs(dir string, rows []broadcast, effects []effect, sums []inspect
 		}
 	}
 	return nil
+}
+
+// panelName is an effect's label as a histogram panel shows it.
+func panelName(e effect) string {
+	if e.Name == "trend.years" {
+		return "trend (thousand listeners per year)"
+	}
+	return e.Label
 }
 
 // writeBroadcasts writes the invented data, one row per broadcast.

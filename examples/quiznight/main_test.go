@@ -340,3 +340,27 @@ func TestEffectsFile(t *testing.T) {
 		}
 	}
 }
+
+// TestHistogramUnits checks the units of coefficients.svg: the trend is in
+// thousand listeners per year, not in the outcome's unit, so no x axis
+// claims one unit for all panels, and the panels carry the report's labels
+// (the one-off days, which have no interval, have no panel).
+func TestHistogramUnits(t *testing.T) {
+	_, dir := runDemo(t, 19)
+	svg, err := os.ReadFile(filepath.Join(dir, "coefficients.svg"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	text := string(svg)
+	for _, want := range []string{"trend (thousand listeners per year)", "in thousand listeners (the trend in thousand listeners per year)",
+		"Christmas Day", "baseline, 2011 (season averaged)"} {
+		if !strings.Contains(text, want) {
+			t.Errorf("coefficients.svg does not say %q", want)
+		}
+	}
+	for _, unwanted := range []string{"value (thousand listeners)", "trend.years", "Platinum Jubilee"} {
+		if strings.Contains(text, unwanted) {
+			t.Errorf("coefficients.svg says %q", unwanted)
+		}
+	}
+}
