@@ -28,8 +28,10 @@ type Parts struct {
 	Before, After int
 	// Until and Since, when positive, make distance columns: the number
 	// of days to the next occurrence (0 on the day itself) and since the
-	// last one, capped at Until or Since days. A distance is also capped
-	// when no occurrence lies within the years the calendar covers.
+	// last one, capped at Until or Since days. Occurrences in the years
+	// just outside MinYear…MaxYear count, so distances near the ends are
+	// right; a distance with no occurrence in MinYear-1…MaxYear+1 is
+	// capped.
 	Until, Since int
 }
 

@@ -224,7 +224,8 @@ func TestBridgeDay(t *testing.T) {
 }
 
 // TestDistancesAgainstNaive compares the table-driven columns with a
-// direct computation from Holidays for random dates.
+// direct computation from Holidays for random dates and for the first and
+// last days covered.
 func TestDistancesAgainstNaive(t *testing.T) {
 	jp := mustCountry(t, "JP")
 	r := rand.New(rand.NewPCG(1, 2))
@@ -232,6 +233,10 @@ func TestDistancesAgainstNaive(t *testing.T) {
 	for i := range dates {
 		dates[i] = d(MinYear, 1, 1).AddDate(0, 0, r.IntN(numDays-732))
 	}
+	// The first and last days covered, whose distances reach into the
+	// extra years MinYear-1 and MaxYear+1 of the table.
+	dates = append(dates, d(MinYear, 1, 1), d(MinYear, 1, 2), d(MinYear, 1, 3), d(MinYear, 3, 1),
+		d(MaxYear, 11, 30), d(MaxYear, 12, 29), d(MaxYear, 12, 30), d(MaxYear, 12, 31))
 	const h = 45
 	tab := encode(t, Columns{Calendar: jp, Names: []string{"Vernal Equinox Day"}, Actual: true,
 		Each: Parts{Indicator: true, Until: h, Since: h, Before: 9, After: 9}, Any: Parts{Indicator: true, Until: h}}, dates)

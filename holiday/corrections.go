@@ -6,7 +6,10 @@ import (
 )
 
 // Corrections to rickar/cal v2.1.26 made in our layer. Each is tested in
-// corrections_test.go against the published list named there.
+// country_test.go: the GB ones by TestGBPublished against the published
+// list named below (and TestGBCorrectionsNeeded shows they are still
+// needed), the others by TestCorrections; the Orthodox fix is tested by
+// TestOrthodoxAfter2099 in easter_test.go.
 //
 // GB (England and Wales), checked against the UK government's list of
 // bank holidays (www.gov.uk/bank-holidays):
