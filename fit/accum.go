@@ -365,7 +365,7 @@ func (a *Accumulator) Solve(condLimit float64) (reps, full *BatchFit) {
 func (a *Accumulator) solveRange(first, nrep int, condLimit float64) *BatchFit {
 	p, q := a.p, a.l.q
 	res := &BatchFit{
-		B: nrep, P: p, Names: batchNames(mat.NewDense(1, p, nil), p),
+		B: nrep, P: p, Names: columnNames(nil, p),
 		Coef: make([]float64, nrep*p), StdErr: make([]float64, nrep*p), Estimable: make([]bool, nrep*p),
 		ResidSE: make([]float64, nrep), Rows: make([]float64, nrep), Rank: make([]int, nrep),
 		Fallback: make([]bool, nrep), Err: make([]error, nrep),

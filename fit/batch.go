@@ -190,7 +190,7 @@ func (bt Batch) Fit(x mat.Matrix, y, weights []float64, B int, counts CountsFunc
 		workers = runtime.GOMAXPROCS(0)
 	}
 	res := &BatchFit{
-		B: B, P: p, Names: batchNames(x, p),
+		B: B, P: p, Names: columnNames(x, p),
 		Coef: make([]float64, B*p), StdErr: make([]float64, B*p), Estimable: make([]bool, B*p),
 		ResidSE: make([]float64, B), Rows: make([]float64, B), Rank: make([]int, B),
 		Fallback: make([]bool, B), Err: make([]error, B),
@@ -223,19 +223,6 @@ func (bt Batch) Fit(x mat.Matrix, y, weights []float64, B int, counts CountsFunc
 	}
 	e.runBlocks()
 	return res, nil
-}
-
-func batchNames(x mat.Matrix, p int) []string {
-	names := make([]string, p)
-	nm, ok := x.(Namer)
-	for j := range names {
-		if ok {
-			names[j] = nm.Name(j)
-		} else {
-			names[j] = fmt.Sprintf("x%d", j+1)
-		}
-	}
-	return names
 }
 
 type batchEngine struct {

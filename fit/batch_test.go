@@ -2,6 +2,7 @@ package fit
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"math/big"
 	"math/rand/v2"
@@ -473,5 +474,39 @@ func TestBatchManyChunks(t *testing.T) {
 	t.Logf("max relative difference from OLS: %.2g", worst)
 	if worst > 1e-9 {
 		t.Errorf("got max relative difference %.3g, want ≤ 1e-9", worst)
+	}
+}
+
+// TestBatchNamesAsOLS checks that Batch and the accumulators name the
+// coefficients as OLS does, including a column whose Namer gives no name.
+func TestBatchNamesAsOLS(t *testing.T) {
+	n := 12
+	x := mat.NewDense(n, 3, nil)
+	y := make([]float64, n)
+	for i := range n {
+		x.Set(i, 0, 1)
+		x.Set(i, 1, float64(i))
+		x.Set(i, 2, float64(i*i%5))
+		y[i] = 2 + 0.5*float64(i) + float64(i%3)
+	}
+	d := namedDense{Dense: x, names: []string{"intercept", "", "season"}}
+	lm, err := OLS{}.FitOLS(d, y, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var want []string
+	for _, c := range lm.Coefficients() {
+		want = append(want, c.Name)
+	}
+	bf, err := Batch{}.Fit(d, y, nil, 2, func(r int, dst []int32) {
+		for i := range dst {
+			dst[i] = int32(1 + (i+r)%2)
+		}
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if fmt.Sprint(bf.Names) != fmt.Sprint(want) {
+		t.Errorf("Batch names: got %q, want %q (as OLS)", bf.Names, want)
 	}
 }

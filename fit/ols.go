@@ -145,6 +145,9 @@ func rowMajor(x mat.Matrix) []float64 {
 	return out
 }
 
+// columnNames returns the p coefficient names of every estimator: x's
+// column names if it implements [Namer] (x may be nil), with "x1", "x2",
+// and so on for columns it leaves unnamed.
 func columnNames(x mat.Matrix, p int) []string {
 	names := make([]string, p)
 	nm, ok := x.(Namer)
