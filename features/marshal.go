@@ -306,11 +306,7 @@ func decodeCalendar(j *encoderJSON, where string) (*calendar, error) {
 			return nil, fmt.Errorf("%s: %w", where, err)
 		}
 	}
-	for k := range e.jobs {
-		jb := &e.jobs[k]
-		jb.first = len(e.names)
-		e.names = append(e.names, jb.names...)
-	}
+	e.layout()
 	if !slices.Equal(e.names, j.Columns) {
 		return nil, fmt.Errorf("%s: columns %q do not match the parts, which make %q", where, j.Columns, e.names)
 	}

@@ -189,7 +189,8 @@ func (p Part) accepts(e Encoding) bool {
 	return false
 }
 
-// Spec asks for one calendar part in one encoding.
+// Spec asks for one calendar part in one encoding. Part has no usable zero
+// value ([Set.Learn] panics on it); the zero Encoding is [Number].
 type Spec struct {
 	Part     Part     // the part; required
 	Encoding Encoding // zero means Number
@@ -227,7 +228,8 @@ func (u TrendUnit) String() string {
 // Trend asks for a column of the time elapsed since Origin, named
 // "trend.days" or "trend.years". It is measured on the civil clock of the
 // location in use, so a day across a daylight-saving change is still 1
-// day; dates before Origin give negative values.
+// day; dates before Origin give negative values. The zero value has no
+// Origin and [Set.Learn] rejects it.
 type Trend struct {
 	Origin time.Time // required: the zero time.Time is an error
 	Unit   TrendUnit // zero means Days

@@ -88,12 +88,18 @@ func (s Set) Learn(dates []time.Time) (Encoder, error) {
 			return nil, err
 		}
 	}
+	e.layout()
+	return e, nil
+}
+
+// layout numbers the jobs' columns in job order, once their names are
+// known, and lists them in e.names.
+func (e *calendar) layout() {
 	for k := range e.jobs {
 		j := &e.jobs[k]
 		j.first = len(e.names)
 		e.names = append(e.names, j.names...)
 	}
-	return e, nil
 }
 
 type jobKind uint8
