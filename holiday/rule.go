@@ -72,7 +72,9 @@ func (s Substitution) String() string {
 }
 
 // Rule declares one custom holiday as data. Which fields are read depends
-// on Kind; the others must be zero. Rules are checked by [New].
+// on Kind; the others must be zero. Rules are checked by [New], which
+// copies them. The zero value is not a valid rule: it has no Name, Month
+// or Day.
 type Rule struct {
 	Name string // required; identifies the holiday and its columns
 	Kind Kind
