@@ -14,8 +14,8 @@
 // derivation is a stability promise: it changes only with a major version.
 //
 //   - Replicate r draws only from rng.Replicate(seed, r), a math/rand/v2
-//     PCG seeded with (Mix(seed), Mix(seed ^ Mix(r+1))), Mix being the
-//     SplitMix64 finaliser. [Bootstrap] makes n index draws in [0, n)
+//     PCG seeded with (Mix(seed), Mix(seed ^ Mix(r+1))), Mix(z) being
+//     SplitMix64's output from state z. [Bootstrap] makes n index draws in [0, n)
 //     (stratified: for each stratum in [Partition] order, n_h draws in
 //     [0, n_h) picking among its rows) and [Grouped] makes G draws in
 //     [0, G), each Uint64 of the generator giving two 32-bit words, low

@@ -13,7 +13,9 @@ package resample
 // both).
 //
 // A Split's slices may be reused by the next call that was given it as dst;
-// copy them to keep them.
+// copy them to keep them. The zero value is an empty Split, ready to be
+// passed as dst. A Split is a plain value: it is not safe to fill from one
+// goroutine while another reads it.
 type Split struct {
 	// Replicate is the 0-based replicate number.
 	Replicate int
