@@ -179,7 +179,7 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 		}
 	}
 
-	design, absent, err := buildDesign(c, in.dates)
+	design, absent, refs, err := buildDesign(c, in.dates)
 	if err != nil {
 		return err
 	}
@@ -307,7 +307,22 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 			p("note: %s\n", n)
 		}
 	}
-	p("\nrows: for a 0/1 column, the rows where it is 1. A replicate cannot estimate a column that is\n")
+	units := "a 0/1 column: the difference on its rows"
+	for _, n := range res.Full.Names() {
+		switch n {
+		case "trend.years":
+			units = n + ": per year; " + units
+		case "trend.days":
+			units = n + ": per day; " + units
+		}
+	}
+	p("\nEach coefficient is the change in %s per unit of its column, the other columns held fixed\n", c.outcome)
+	p("(%s).\n", units)
+	if len(refs) > 0 {
+		p("Reference levels, which have no column (their part's other columns are differences from them):\n  %s\n",
+			strings.Join(refs, ", "))
+	}
+	p("rows: for a 0/1 column, the rows where it is 1. A replicate cannot estimate a column that is\n")
 	p("all zeros in the rows it drew (a holiday none of whose rows it drew): \"estimable in\" counts\n")
 	p("the replicates that could.\n")
 	if few > 0 {
@@ -366,11 +381,12 @@ func firstErr(errs []error) error {
 // calendar parts (indicator parts without a named reference leave out the
 // first level seen in dates) and the holiday columns. With -holidays each,
 // only the holidays that fall on one of the dates get a column
-// (holiday.Columns.Seen); absent names the others' columns.
-func buildDesign(c config, dates []time.Time) (design features.Builder, absent []string, err error) {
+// (holiday.Columns.Seen); absent names the others' columns. refs names
+// the reference level of each indicator part, as "part=Level".
+func buildDesign(c config, dates []time.Time) (design features.Builder, absent, refs []string, err error) {
 	parts, trend, err := parseParts(c.parts)
 	if err != nil {
-		return nil, nil, err
+		return nil, nil, nil, err
 	}
 	set := features.Set{ZeroUnseen: true}
 	for _, ps := range parts {
@@ -381,7 +397,7 @@ func buildDesign(c config, dates []time.Time) (design features.Builder, absent [
 	}
 	enc, err := set.Learn(dates)
 	if err != nil {
-		return nil, nil, fmt.Errorf("-parts: %v", err)
+		return nil, nil, nil, fmt.Errorf("-parts: %v", err)
 	}
 	learned := enc.Names()
 	for k, ps := range parts {
@@ -396,13 +412,18 @@ func buildDesign(c config, dates []time.Time) (design features.Builder, absent [
 			}
 		}
 	}
+	for _, sp := range set.Parts {
+		if sp.Reference != "" {
+			refs = append(refs, sp.Part.String()+"="+sp.Reference)
+		}
+	}
 	builders := []features.Builder{features.Intercept{}, set}
 
 	var cals []holiday.Calendar
 	if c.calendar != "" {
 		cal, err := holiday.Country(c.calendar)
 		if err != nil {
-			return nil, nil, fmt.Errorf("-calendar %q: %v", c.calendar, err)
+			return nil, nil, nil, fmt.Errorf("-calendar %q: %v", c.calendar, err)
 		}
 		cals = append(cals, cal)
 	}
@@ -411,37 +432,37 @@ func buildDesign(c config, dates []time.Time) (design features.Builder, absent [
 		for _, v := range c.holidays {
 			r, err := parseHoliday(v)
 			if err != nil {
-				return nil, nil, err
+				return nil, nil, nil, err
 			}
 			rules = append(rules, r)
 		}
 		cal, err := holiday.New("custom", rules...)
 		if err != nil {
-			return nil, nil, fmt.Errorf("-holiday: %v", err)
+			return nil, nil, nil, fmt.Errorf("-holiday: %v", err)
 		}
 		cals = append(cals, cal)
 	}
 	if len(cals) > 0 && c.holidayCols != "none" {
 		cal, err := holiday.Combine(cals...)
 		if err != nil {
-			return nil, nil, err
+			return nil, nil, nil, err
 		}
 		hc := holiday.Columns{Calendar: cal}
 		switch c.holidayCols {
 		case "each":
 			hc.Each.Indicator = true
 			if absent, err = absentHolidays(hc, dates); err != nil {
-				return nil, nil, err
+				return nil, nil, nil, err
 			}
 			hc.Seen = true
 		case "any":
 			hc.Any.Indicator = true
 		default:
-			return nil, nil, fmt.Errorf("-holidays %q: want each, any or none", c.holidayCols)
+			return nil, nil, nil, fmt.Errorf("-holidays %q: want each, any or none", c.holidayCols)
 		}
 		builders = append(builders, hc)
 	}
-	return features.Join(builders...), absent, nil
+	return features.Join(builders...), absent, refs, nil
 }
 
 // absentHolidays returns the columns hc makes for holidays on none of the

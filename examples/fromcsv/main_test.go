@@ -76,7 +76,9 @@ func TestUsageExample(t *testing.T) {
 	if seen != len(truth) {
 		t.Errorf("found %d of the %d checked columns in:\n%s", seen, len(truth), out.String())
 	}
-	for _, want := range []string{"2186 rows", "stationary", "associations in these data, not causal effects", "Out-of-bag error"} {
+	for _, want := range []string{"2186 rows", "stationary", "associations in these data, not causal effects", "Out-of-bag error",
+		"the change in tickets per unit of its column", "(trend.years: per year;",
+		"Reference levels, which have no column (their part's other columns are differences from them):\n  weekday=Monday\n"} {
 		if !strings.Contains(out.String(), want) {
 			t.Errorf("output does not say %q", want)
 		}
@@ -184,7 +186,8 @@ func TestSchemesAndStdin(t *testing.T) {
 			if err := run(args, strings.NewReader(b.String()), &out, &errs); err != nil {
 				t.Fatalf("%v\n%s", err, errs.String())
 			}
-			for _, want := range []string{"120 rows from stdin", "90% normal interval", "weekday=Monday", "trend.days"} {
+			for _, want := range []string{"120 rows from stdin", "90% normal interval", "weekday=Monday", "trend.days",
+				"(trend.days: per day;", "have no column (their part's other columns are differences from them):\n  weekday=Sunday\n"} {
 				if !strings.Contains(out.String(), want) {
 					t.Errorf("output does not mention %q:\n%s", want, out.String())
 				}
