@@ -245,21 +245,27 @@ func (s rowSource) row(i int, dst []float64) {
 }
 
 // validateRows returns a *DataError for the first NaN or infinite value in
-// the design or outcome, or NaN, infinite or negative weight.
+// the design or outcome, or NaN, infinite or negative weight, worded and
+// named as OLS words and names it (design columns by their [Namer] name).
 func validateRows(src rowSource, y, w []float64) error {
 	row := make([]float64, src.p)
 	for i := range src.n {
 		src.row(i, row)
 		for j, v := range row {
 			if !finite(v) {
-				return &DataError{Row: i + 1, Column: j + 1, Value: v, Err: fmt.Errorf("%w: not finite", ErrBadValue)}
+				return &DataError{Row: i + 1, Column: j + 1, Name: columnNames(src.m, src.p)[j], Value: v, Err: badValue(v)}
 			}
 		}
 		if !finite(y[i]) {
-			return &DataError{Row: i + 1, Name: "outcome", Value: y[i], Err: fmt.Errorf("%w: not finite", ErrBadValue)}
+			return &DataError{Row: i + 1, Name: "outcome", Value: y[i], Err: badValue(y[i])}
 		}
-		if w != nil && (!finite(w[i]) || w[i] < 0) {
-			return &DataError{Row: i + 1, Name: "weights", Value: w[i], Err: fmt.Errorf("%w: weight must be finite and non-negative", ErrBadValue)}
+		if w != nil {
+			switch v := w[i]; {
+			case !finite(v):
+				return &DataError{Row: i + 1, Name: "weights", Value: v, Err: badValue(v)}
+			case v < 0:
+				return &DataError{Row: i + 1, Name: "weights", Value: v, Err: fmt.Errorf("negative weight: %w", ErrBadValue)}
+			}
 		}
 	}
 	return nil

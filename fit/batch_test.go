@@ -6,6 +6,7 @@ import (
 	"math"
 	"math/big"
 	"math/rand/v2"
+	"strings"
 	"testing"
 
 	"github.com/kalends/kalends/internal/rng"
@@ -508,5 +509,64 @@ func TestBatchNamesAsOLS(t *testing.T) {
 	}
 	if fmt.Sprint(bf.Names) != fmt.Sprint(want) {
 		t.Errorf("Batch names: got %q, want %q (as OLS)", bf.Names, want)
+	}
+}
+
+// TestBatchDataErrorsAsOLS checks that Batch, LearnStandardization and
+// Accumulator.Add report a bad value with the same *DataError as OLS: the
+// 1-based row, the column by name and the same reason.
+func TestBatchDataErrorsAsOLS(t *testing.T) {
+	n := 10
+	base := mat.NewDense(n, 3, nil)
+	y := make([]float64, n)
+	for i := range n {
+		base.Set(i, 0, 1)
+		base.Set(i, 1, float64(i))
+		base.Set(i, 2, float64(i%3))
+		y[i] = float64(i * i % 7)
+	}
+	names := []string{"intercept", "trend", "season"}
+	ones := func() []float64 {
+		w := make([]float64, n)
+		for i := range w {
+			w[i] = 1
+		}
+		return w
+	}
+	tests := []struct {
+		name   string
+		set    func(x *mat.Dense, y, w []float64)
+		reason string
+	}{
+		{"NaN in design", func(x *mat.Dense, _, _ []float64) { x.Set(6, 2, math.NaN()) }, "row 7, season"},
+		{"Inf in design", func(x *mat.Dense, _, _ []float64) { x.Set(3, 1, math.Inf(-1)) }, "row 4, trend"},
+		{"NaN outcome", func(_ *mat.Dense, y, _ []float64) { y[2] = math.NaN() }, "row 3, outcome"},
+		{"negative weight", func(_ *mat.Dense, _, w []float64) { w[8] = -1 }, "row 9, weights"},
+		{"infinite weight", func(_ *mat.Dense, _, w []float64) { w[0] = math.Inf(1) }, "row 1, weights"},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			x := mat.DenseCopyOf(base)
+			yy := append([]float64(nil), y...)
+			w := ones()
+			tt.set(x, yy, w)
+			d := namedDense{Dense: x, names: names}
+			_, want := OLS{}.FitOLS(d, yy, w)
+			if want == nil || !strings.Contains(want.Error(), tt.reason) {
+				t.Fatalf("OLS: got %v, want an error naming %q", want, tt.reason)
+			}
+			_, err := Batch{}.Fit(d, yy, w, 1, func(_ int, c []int32) {
+				for i := range c {
+					c[i] = 1
+				}
+			})
+			if err == nil || err.Error() != want.Error() {
+				t.Errorf("Batch: got %v, want %v", err, want)
+			}
+			_, err = LearnStandardization(d, yy, w)
+			if err == nil || err.Error() != want.Error() {
+				t.Errorf("LearnStandardization: got %v, want %v", err, want)
+			}
+		})
 	}
 }
