@@ -41,8 +41,10 @@ type columnar interface {
 // readDesign copies x into column-major storage and checks x, y and
 // weights. It panics with a "fit: " message when the lengths disagree
 // (who names the estimator in the message) and returns a *DataError
-// naming the first bad value, scanning rows in order, design before
-// outcome before weights. All-zero weights give ErrTooFewRows.
+// naming the first bad value, scanning columns in order, then the
+// outcome, then the weights (so a bad outcome in row 2 is reported before
+// a bad design value in row 9, unlike OLS, which scans row by row).
+// All-zero weights give an error wrapping ErrBadValue.
 func readDesign(who string, x mat.Matrix, y, weights []float64) (*estDesign, error) {
 	n, p := x.Dims()
 	if len(y) != n {
