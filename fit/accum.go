@@ -2,7 +2,6 @@ package fit
 
 import (
 	"encoding/binary"
-	"errors"
 	"fmt"
 	"hash/crc32"
 	"math"
@@ -116,9 +115,6 @@ const (
 	accMagic   = "kalendsA"
 	accVersion = 1
 )
-
-// errAccumulator reports accumulators that cannot be merged or decoded.
-var errAccumulator = errors.New("fit: accumulator")
 
 // toFixed converts z to the 2⁻⁵² grid; ok is false if |z| ≥ 2³².
 func toFixed(z float64) (int128, bool) {

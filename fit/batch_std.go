@@ -1,7 +1,6 @@
 package fit
 
 import (
-	"errors"
 	"fmt"
 	"math"
 
@@ -37,9 +36,6 @@ type Standardization struct {
 	// non-zero.
 	YCentre, YScale float64
 }
-
-// errStandardization reports an inconsistent Standardization.
-var errStandardization = errors.New("fit: invalid standardization")
 
 // check reports whether s is usable for a design with p columns.
 func (s Standardization) check(p int) error {

@@ -23,6 +23,13 @@ var (
 	ErrBadValue = errors.New("fit: bad value")
 	// ErrTooFewRows reports fewer usable rows than estimable coefficients.
 	ErrTooFewRows = errors.New("fit: too few rows")
+
+	// errStandardization reports an inconsistent Standardization
+	// (NewAccumulator wraps it together with ErrBadValue).
+	errStandardization = errors.New("fit: invalid standardization")
+	// errAccumulator reports accumulators that cannot be merged or
+	// decoded.
+	errAccumulator = errors.New("fit: accumulator")
 )
 
 // ConditionError reports a design too badly conditioned to solve, with the
