@@ -149,18 +149,22 @@ func (r Ridge) FitRidge(x mat.Matrix, y, weights []float64) (*RidgeFit, error) {
 	a := make([][]float64, k)
 	back := make([]float64, m*k)
 	sl := math.Sqrt(lam)
+	rhs := make([]float64, m)
+	sw := rhs[:n] // √w, overwritten by the right-hand side below
+	for i, wi := range w {
+		sw[i] = math.Sqrt(wi)
+	}
 	for c, j := range cols {
 		col := back[c*m : (c+1)*m]
 		inv := 1 / scale[j]
 		for i, v := range d.cols[j] {
-			col[i] = math.Sqrt(w[i]) * (v - mean[j]) * inv
+			col[i] = sw[i] * (v - mean[j]) * inv
 		}
 		col[n+c] = sl
 		a[c] = col
 	}
-	rhs := make([]float64, m)
 	for i, v := range y {
-		rhs[i] = math.Sqrt(w[i]) * (v - ybar)
+		rhs[i] = sw[i] * (v - ybar)
 	}
 	b := make([]float64, k)
 	var qr orderedQR
