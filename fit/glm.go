@@ -83,8 +83,8 @@ var (
 // is many orders of magnitude smaller.
 //
 // Fit panics if Family or Weights is not one of the defined values, if
-// MaxIter or Tol is negative or NaN, or if the lengths of x, y and
-// weights disagree.
+// MaxIter or Tol is negative or NaN, if the lengths of x, y and
+// weights disagree, or if x has no columns.
 type GLM struct {
 	// Family is the error distribution and link.
 	Family Family

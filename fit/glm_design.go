@@ -39,7 +39,8 @@ type columnar interface {
 }
 
 // readDesign copies x into column-major storage and checks x, y and
-// weights. It panics with a "fit: " message when the lengths disagree
+// weights. It panics with a "fit: " message when the lengths disagree or x
+// has no columns
 // (who names the estimator in the message) and returns a *DataError
 // naming the first bad value, scanning columns in order, then the
 // outcome, then the weights (so a bad outcome in row 2 is reported before
@@ -52,6 +53,9 @@ func readDesign(who string, x mat.Matrix, y, weights []float64) (*estDesign, err
 	}
 	if weights != nil && len(weights) != n {
 		panic(fmt.Sprintf("fit: %s: len(weights) = %d, design has %d rows", who, len(weights), n))
+	}
+	if p == 0 {
+		panic(fmt.Sprintf("fit: %s: design has no columns", who))
 	}
 	d := &estDesign{n: n, p: p, cols: make([][]float64, p), names: columnNames(x, p), y: y}
 	back := make([]float64, n*p)

@@ -470,3 +470,32 @@ func TestGLMPoissonEmptyLevel(t *testing.T) {
 		t.Errorf("iterations: got %d, want 17", got)
 	}
 }
+
+// noColumns is a design of n rows and no columns (mat.Dense cannot be one).
+type noColumns int
+
+func (n noColumns) Dims() (int, int)  { return int(n), 0 }
+func (noColumns) At(i, j int) float64 { panic("no columns") }
+func (n noColumns) T() mat.Matrix     { return mat.Transpose{Matrix: n} }
+
+// TestNoColumnsPanics checks the package doc's promise that a design with
+// no columns is a caller bug, met by a "fit: " panic from every estimator.
+func TestNoColumnsPanics(t *testing.T) {
+	y := []float64{1, 2, 3}
+	tests := []struct {
+		name string
+		f    fit.Fitter
+	}{
+		{"OLS", fit.OLS{}},
+		{"Ridge", fit.Ridge{Lambda: 1}},
+		{"GLM", fit.GLM{Family: fit.Poisson}},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			ok, msg := panics(func() { tt.f.Fit(noColumns(3), y, nil) })
+			if !ok || !strings.HasPrefix(msg, "fit: ") || !strings.Contains(msg, "no columns") {
+				t.Errorf("got panic %v with message %q, want a \"fit: ...no columns\" panic", ok, msg)
+			}
+		})
+	}
+}

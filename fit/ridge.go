@@ -56,7 +56,8 @@ var (
 // Σw grows.
 //
 // Fit panics if Lambda is negative, NaN or infinite, if Weights is not a
-// defined kind, or if the lengths of x, y and weights disagree. It returns a *DataError for NaN or infinite
+// defined kind, if the lengths of x, y and weights disagree, or if x has no
+// columns. It returns a *DataError for NaN or infinite
 // values and negative weights, and an error wrapping ErrBadValue when all
 // weights are zero.
 type Ridge struct {
