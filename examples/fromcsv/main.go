@@ -14,6 +14,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"math"
 	"os"
 	"path/filepath"
 	"slices"
@@ -353,19 +354,30 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	}
 	if len(errSums) == 2 {
 		iv := errSums[0].Intervals[0]
-		p("\nOut-of-bag error (rows each replicate left out): RMSE %.4g (middle %g%% of replicates %.4g to %.4g),\n",
-			errSums[0].Mean, 100*c.level, iv.Lower, iv.Upper)
-		p("MAE %.4g; in-sample RMSE %.4g.\n", errSums[1].Mean, errSums[0].Estimate)
+		dec := decimals(errSums[0].Mean, 4)
+		p("\nOut-of-bag error (rows each replicate left out): RMSE %.*f (middle %g%% of replicates %.*f to %.*f),\n",
+			dec, errSums[0].Mean, 100*c.level, dec, iv.Lower, dec, iv.Upper)
+		p("MAE %.*f; in-sample RMSE %.*f.\n", dec, errSums[1].Mean, dec, errSums[0].Estimate)
 	}
 	p("Calendar and holiday coefficients are associations in these data, not causal effects.\n")
 
-	if err := writeOutputs(c.out, full, sums, stats, errSums, oob, d.Outcome, c.outcome, method); err != nil {
+	if err := writeOutputs(c.out, full, sums, stats, errSums, oob, d.Outcome, c.outcome, method, c.level); err != nil {
 		return err
 	}
 	p("Tables and plots written to %s: coefficients.csv/.json, error.csv/.json,\n", c.out)
 	p("coefficients.svg/.png (replicate histograms, without the intercept and the ! columns),\n")
 	p("observed_vs_predicted.svg/.png.\n")
 	return nil
+}
+
+// decimals returns the number of decimals that shows v to sig significant
+// digits (none for large values), so that figures of one scale printed
+// together have the same decimals: 13.2954 → 2, as in 13.30.
+func decimals(v float64, sig int) int {
+	if v == 0 || math.IsNaN(v) || math.IsInf(v, 0) {
+		return sig - 1
+	}
+	return max(0, sig-1-int(math.Floor(math.Log10(math.Abs(v)))))
 }
 
 func firstErr(errs []error) error {
@@ -526,7 +538,7 @@ func fullDesign(b features.Builder, d inspect.Data) (*features.Table, error) {
 
 // writeOutputs writes the tables and plots into dir.
 func writeOutputs(dir string, full *features.Table, sums []inspect.Summary, stats []inspect.Statistic, errSums []inspect.Summary,
-	oob *inspect.Kept[inspect.OutOfBag], outcome []float64, outcomeName string, method inspect.Method) error {
+	oob *inspect.Kept[inspect.OutOfBag], outcome []float64, outcomeName string, method inspect.Method, level float64) error {
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return err
 	}
@@ -577,7 +589,8 @@ func writeOutputs(dir string, full *features.Table, sums []inspect.Summary, stat
 		hist, err := inspect.Histograms(hs, hsum, inspect.PlotMark(method), inspect.PlotColumns(3),
 			inspect.PlotSize(30*vg.Centimeter, vg.Length(rows)*7*vg.Centimeter),
 			inspect.PlotUnit(outcomeName+" per unit of the column"),
-			inspect.PlotTitle(fmt.Sprintf("Bootstrap replicates of each coefficient (solid: full-data estimate; dashed: %v interval)", method)))
+			inspect.PlotTitle(fmt.Sprintf("Bootstrap replicates of each coefficient (solid: full-data estimate; dashed: %g%% %v interval)",
+				100*level, method)))
 		if err != nil {
 			return err
 		}

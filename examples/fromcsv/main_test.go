@@ -5,6 +5,8 @@ import (
 	"errors"
 	"flag"
 	"fmt"
+	"os"
+	"path/filepath"
 	"regexp"
 	"strconv"
 	"strings"
@@ -44,7 +46,8 @@ func exampleArgs(t *testing.T) []string {
 // and checks the estimates against the process documented in
 // testdata/ferry_tickets_gen.go.
 func TestUsageExample(t *testing.T) {
-	args := append(exampleArgs(t), "-b", "199", "-out", t.TempDir())
+	dir := t.TempDir()
+	args := append(exampleArgs(t), "-b", "199", "-out", dir)
 	var out, errs bytes.Buffer
 	if err := run(args, strings.NewReader(""), &out, &errs); err != nil {
 		t.Fatalf("run %q: %v\n%s", args, err, errs.String())
@@ -82,6 +85,17 @@ func TestUsageExample(t *testing.T) {
 		if !strings.Contains(out.String(), want) {
 			t.Errorf("output does not say %q", want)
 		}
+	}
+	// The out-of-bag figures share their decimals.
+	if !regexp.MustCompile(`RMSE \d+\.\d\d \(middle 95% of replicates \d+\.\d\d to \d+\.\d\d\),\nMAE \d+\.\d\d; in-sample RMSE \d+\.\d\d\.`).MatchString(out.String()) {
+		t.Errorf("out-of-bag error not printed with two decimals throughout:\n%s", out.String())
+	}
+	svg, err := os.ReadFile(filepath.Join(dir, "coefficients.svg"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want := "dashed: 95% percentile interval"; !strings.Contains(string(svg), want) {
+		t.Errorf("coefficients.svg does not say %q", want)
 	}
 }
 
@@ -361,5 +375,29 @@ func TestBCa(t *testing.T) {
 		if !(lo < est && est < hi) {
 			t.Errorf("%s: BCa interval [%g, %g] does not contain the estimate %g", col, lo, hi, est)
 		}
+	}
+}
+
+func TestDecimals(t *testing.T) {
+	tests := []struct {
+		name string
+		v    float64
+		want int // decimals for 4 significant digits
+	}{
+		{name: "tens", v: 13.2954, want: 2},
+		{name: "ten exactly", v: 10, want: 2},
+		{name: "just under ten", v: 9.99, want: 3},
+		{name: "thousands", v: 1234.5, want: 0},
+		{name: "millions", v: 2.5e6, want: 0},
+		{name: "small", v: 0.012345, want: 5},
+		{name: "negative", v: -13.3, want: 2},
+		{name: "zero", v: 0, want: 3},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			if got := decimals(tt.v, 4); got != tt.want {
+				t.Errorf("decimals(%v, 4) = %d, want %d", tt.v, got, tt.want)
+			}
+		})
 	}
 }
