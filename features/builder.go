@@ -43,7 +43,8 @@ func Apply(e Encoder, dates []time.Time) (*Table, error) {
 }
 
 // Join returns a Builder whose columns are those of bs in order. Learn
-// fails if two of them make a column with the same name.
+// fails if two of them make a column with the same name. The joined
+// encoder's Encode leaves dst unchanged when any member fails.
 func Join(bs ...Builder) Builder { return joined(bs) }
 
 type joined []Builder
@@ -77,11 +78,14 @@ func (es joinedEncoder) Names() []string {
 	return names
 }
 
+// Encode appends the members' columns in order. The columns are made in a
+// staging table first, so on error dst is left unchanged.
 func (es joinedEncoder) Encode(dst *Table, dates []time.Time) error {
+	stage := NewTable(len(dates))
 	for _, e := range es {
-		if err := e.Encode(dst, dates); err != nil {
+		if err := e.Encode(stage, dates); err != nil {
 			return err
 		}
 	}
-	return nil
+	return dst.Join(stage)
 }

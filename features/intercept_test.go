@@ -48,3 +48,28 @@ func ExampleIntercept() {
 	fmt.Println(enc.Names())
 	// Output: [intercept month]
 }
+
+// failing is an encoder that always fails, to check that a joined encoder
+// leaves dst unchanged when a later member fails.
+type failing struct{}
+
+func (failing) Learn([]time.Time) (features.Encoder, error) { return failing{}, nil }
+func (failing) Names() []string                             { return []string{"never"} }
+func (failing) Encode(*features.Table, []time.Time) error {
+	return fmt.Errorf("failing: no columns")
+}
+
+func TestJoinEncodeLeavesDstOnError(t *testing.T) {
+	dates := []time.Time{time.Date(2024, 5, 2, 0, 0, 0, 0, time.UTC)}
+	enc, err := features.Join(features.Intercept{}, failing{}).Learn(dates)
+	if err != nil {
+		t.Fatal(err)
+	}
+	dst := features.NewTable(1)
+	if err := enc.Encode(dst, dates); err == nil {
+		t.Fatal("got no error from a failing member")
+	}
+	if dst.Width() != 0 {
+		t.Errorf("dst has %d columns %v after a failed Encode, want none", dst.Width(), dst.Names())
+	}
+}
