@@ -270,11 +270,12 @@ var bit01 = [2]float64{0, 1}
 
 // Encode appends the columns to dst. It returns a [*DateError] for the
 // first date outside MinYear…MaxYear, and an error if dst already has one
-// of the column names or a row count other than len(dates); dst is
-// unchanged on error.
+// of the column names; dst is unchanged on error. It panics, as the
+// features encoders do, if dst already has columns and a row count other
+// than len(dates).
 func (e *encoder) Encode(dst *features.Table, dates []time.Time) error {
 	if dst.Width() > 0 && dst.Rows() != len(dates) {
-		return fmt.Errorf("holiday: encode: %d dates, table has %d rows", len(dates), dst.Rows())
+		panic(fmt.Sprintf("holiday: Encode: dst has %d rows, %d dates", dst.Rows(), len(dates)))
 	}
 	for _, n := range e.names {
 		if dst.Index(n) >= 0 {
