@@ -157,8 +157,9 @@ func run(args []string, stdout, stderr io.Writer) error {
 		}
 		p("%-15s %6.1f   %s   %s\n", s.Name, t, cell(ols[j]), cell(s))
 	}
-	p("(Tuesday to Thursday are in the model too, with true effect 0.) The faults are all low, so they\n")
-	p("pull even Huber's level down a little, but far less than they pull least squares'.\n\n")
+	p("Effects in calls per evening (trend.years: per year); weekday=Friday is relative to Monday, the\n")
+	p("reference level (Tuesday to Thursday are in the model too, with true effect 0). The faults are\n")
+	p("all low, so they pull even Huber's level down a little, but far less than they pull least squares'.\n\n")
 
 	// Our callback's values, summarised like any coefficient.
 	p("Kept by our own callback, per replicate (the built-in callbacks do not know these):\n")

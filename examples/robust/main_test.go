@@ -237,7 +237,8 @@ func TestRun(t *testing.T) {
 	if seen != len(truth) {
 		t.Errorf("got %d coefficient lines, want %d:\n%s", seen, len(truth), out.String())
 	}
-	for _, want := range []string{"robust scale (calls)", "% of evenings down-weighted", "IRLS steps"} {
+	for _, want := range []string{"robust scale (calls)", "% of evenings down-weighted", "IRLS steps",
+		"Effects in calls per evening (trend.years: per year)", "relative to Monday, the\nreference level"} {
 		if !strings.Contains(out.String(), want) {
 			t.Errorf("output does not mention %q:\n%s", want, out.String())
 		}
