@@ -17,6 +17,8 @@ import (
 // function of r (it may be called more than once for the same replicate)
 // and safe to call from several goroutines at once, as resample.Plan.Split
 // is. Counts must not be negative.
+//
+// A nil CountsFunc is a caller bug: [Batch.Fit] panics.
 type CountsFunc func(r int, dst []int32)
 
 // Batch fits one least-squares model per bootstrap replicate of a data set
@@ -83,6 +85,9 @@ type CountsFunc func(r int, dst []int32)
 // kernel fuses multiply and add on amd64 with AVX2, so results may differ in
 // the last bits between machines with and without it. A Batch value is safe
 // for concurrent use.
+//
+// The zero value fits ordinary least-squares replicates with the default
+// rank tolerance and condition limit on runtime.GOMAXPROCS(0) workers.
 type Batch struct {
 	// Tol is the rank tolerance passed to the QR path (see [OLS]); 0 means
 	// the default.
@@ -111,6 +116,10 @@ type Batch struct {
 // BatchFit holds the per-replicate results of a [Batch] fit, indexed by
 // replicate. Matrices are B × P, row-major: replicate r's coefficients are
 // Coef[r*P : (r+1)*P].
+//
+// A BatchFit is plain data, written only by the Fit or Solve that returns
+// it: reading it from several goroutines afterwards is safe. Its zero
+// value holds no replicates.
 type BatchFit struct {
 	// B is the number of replicates and P the number of design columns.
 	B, P int

@@ -25,6 +25,11 @@ import (
 // A Standardization is a plain value; the accumulators of one bootstrap must
 // all use the same one, learned once beforehand (for example on the whole
 // data, or on a sample of it) with [LearnStandardization].
+//
+// Its zero value has no columns and is rejected by [NewAccumulator].
+// Nothing in this package modifies a Standardization it is given
+// (NewAccumulator copies its slices), so one value may be shared by many
+// goroutines.
 type Standardization struct {
 	// Intercept is the index of the intercept column, or −1 if there is
 	// none.

@@ -35,6 +35,9 @@ var (
 // ConditionError reports a design too badly conditioned to solve, with the
 // estimated condition number of its estimable part. It unwraps to
 // [ErrSingular].
+//
+// Errors of this type are not modified after they are returned and are
+// safe to read concurrently; the zero value carries no condition number.
 type ConditionError struct {
 	Cond float64
 }
@@ -49,6 +52,9 @@ func (e *ConditionError) Unwrap() error { return ErrSingular }
 
 // ConvergenceError reports an iterative fit that did not converge, with the
 // state at the stop. It unwraps to [ErrNoConvergence].
+//
+// Errors of this type are not modified after they are returned and are
+// safe to read concurrently; the zero value carries no state.
 type ConvergenceError struct {
 	Iter   int     // iterations run
 	Change float64 // relative change in deviance at the last iteration
@@ -64,6 +70,10 @@ func (e *ConvergenceError) Unwrap() error { return ErrNoConvergence }
 
 // DataError reports a bad value in the input of a fit. Row and Column are
 // 1-based; Column is 0 for the outcome or the weights, which Name then names.
+//
+// Errors of this type are not modified after they are returned and are
+// safe to read concurrently; the zero value names no row and has a nil
+// reason.
 type DataError struct {
 	Row    int     // 1-based row
 	Column int     // 1-based design column, 0 if the value is not in the design

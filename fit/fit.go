@@ -59,6 +59,9 @@ type Namer interface {
 // columns in the rows a model was fitted on is not estimable: its Estimate,
 // StdErr and the statistics derived from them are NaN and Estimable is
 // false, so that no NaN is ever silent.
+//
+// A Coefficient is a plain value, safe to copy and share; its zero value
+// is an unnamed coefficient estimated as 0 that is not estimable.
 type Coefficient struct {
 	Name      string
 	Estimate  float64
@@ -96,6 +99,9 @@ type FrequencyWeigher interface {
 
 // Stats are the whole-fit statistics of a model. Fields an estimator does
 // not compute are NaN.
+//
+// Stats is a plain value, safe to copy and share; its zero value is not a
+// statistic of any fit (NaN marks the fields not computed).
 type Stats struct {
 	// Rows is the number of rows used (the sum of frequency weights, or
 	// the number of rows with a non-zero weight for precision weights).

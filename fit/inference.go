@@ -9,6 +9,8 @@ import (
 )
 
 // WeightKind says what the case weights passed to Fit mean.
+//
+// The zero value is [Precision].
 type WeightKind int
 
 const (
@@ -38,6 +40,8 @@ func (k WeightKind) String() string {
 
 // CovKind selects the estimator of the coefficient covariance matrix, and so
 // of the standard errors, t statistics, p-values and intervals derived from it.
+//
+// The zero value is [Classical].
 type CovKind int
 
 const (

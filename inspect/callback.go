@@ -11,6 +11,9 @@ import (
 // Replicate is the 0-based replicate number, as in [resample.Split]; it is
 // −1 for the full-data fit. Err is the reason, so errors.Is(err,
 // fit.ErrSingular) still holds for a replicate whose design was singular.
+//
+// Errors of this type are not modified after they are returned and are
+// safe to read concurrently.
 type ReplicateError struct {
 	Replicate int
 	Err       error
@@ -33,6 +36,9 @@ func (e *ReplicateError) Unwrap() error { return e.Err }
 // [runtime/debug.Stack]. A run re-raises it on the caller's goroutine with
 // panic(PanicError{...}), or records it as the replicate's failure when
 // [Options.RecordPanics] is set.
+//
+// A PanicError is a plain value, not modified after it is made, and safe
+// to read concurrently.
 type PanicError struct {
 	Replicate int    // 0-based replicate, −1 for the full-data fit
 	Where     string // what panicked: "learn", "fit", "callback \"name\"", ...
@@ -57,6 +63,9 @@ func (p PanicError) Unwrap() error {
 // (kept, or passed to the sink); the others are marked [ErrNotRun]. Err is
 // the cause (ctx.Err(), the first *ReplicateError or the sink's error), so
 // errors.Is(err, context.Canceled) holds for a cancelled run.
+//
+// Errors of this type are not modified after they are returned and are
+// safe to read concurrently.
 type StopError struct {
 	Finished, Total int
 	Err             error

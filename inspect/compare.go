@@ -12,6 +12,9 @@ import (
 // for every replicate, both were learned and fitted on its in-bag rows and
 // measured on its out-of-bag rows, so their difference in error is paired
 // and free of the replicate-to-replicate noise that both share.
+//
+// A Comparison is written only by the Compare that returns it; its methods
+// only read it and are safe for concurrent use.
 type Comparison struct {
 	// Total is the number of replicates in the plan, Finished the number
 	// delivered and Failed the number in which either fit failed.

@@ -7,6 +7,9 @@ import (
 )
 
 // Metrics holds prediction error measures over a set of rows.
+//
+// Metrics is a plain value, safe to copy and share; the zero value
+// describes no rows.
 type Metrics struct {
 	// N is the number of rows.
 	N int
@@ -62,6 +65,9 @@ func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
 // OutOfBag is one replicate's out-of-bag predictions: Pred[k] is the
 // prediction for row Rows[k] (0-based), made by the model fitted on that
 // replicate's in-bag rows.
+//
+// An OutOfBag is a plain value; the functions that take one only read it.
+// The zero value has no rows.
 type OutOfBag struct {
 	Rows []int
 	Pred []float64
@@ -104,6 +110,9 @@ func checkOOB(n int, o OutOfBag) {
 // Error632 holds the bootstrap prediction error estimates of Efron &
 // Tibshirani (1997), "Improvements on cross-validation: the .632+
 // bootstrap method", JASA 92:548–560, for squared error.
+//
+// An Error632 is a plain value, safe to copy and share; the zero value is
+// not an estimate.
 type Error632 struct {
 	// Apparent is the training error err̄: the mean squared error of the
 	// full-data fit on the full data.

@@ -34,6 +34,9 @@ type PredictOptions struct {
 
 // Prediction holds predictions for new rows with bootstrap intervals. All
 // slices have one element per new row.
+//
+// A Prediction is written only by the Predict that returns it and is safe
+// to read concurrently afterwards.
 type Prediction struct {
 	// Fit is the full-data model's prediction ŷ₊.
 	Fit []float64

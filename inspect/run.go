@@ -14,6 +14,9 @@ import (
 
 // Data is the input of a run: one row per dated event. Runs never modify
 // it.
+//
+// The zero value is a data set with no rows. A run reads Data from
+// several goroutines; do not modify it while a run is using it.
 type Data struct {
 	// Dates are the rows' dates, from which the feature set makes columns.
 	Dates []time.Time
@@ -125,6 +128,9 @@ func (o *Options) engine(total int) *engine {
 }
 
 // Result is what a run leaves besides the Keepers' values.
+//
+// A Result is written only by the run that returns it and is safe to read
+// concurrently afterwards.
 type Result struct {
 	// Total is the number of replicates in the plan.
 	Total int
@@ -145,6 +151,9 @@ type Result struct {
 
 // Replicate is what a [Callback] sees of one fitted replicate, or of the
 // full-data fit. It and its slices are valid only during the call.
+//
+// A callback may read its Replicate from several goroutines during the
+// call but must not modify it.
 type Replicate struct {
 	// ID is the 0-based replicate number, or −1 for the full-data fit.
 	ID int

@@ -13,6 +13,10 @@ import (
 // [Summarize]. Values may come from any numeric result of a replicate, not
 // only a coefficient. Summarize reads the slices and never modifies or
 // keeps them.
+//
+// The zero value has no replicates ([Summarize] reports too few).
+// Summarize only reads it, so one Statistic may be summarised from several
+// goroutines at once.
 type Statistic struct {
 	// Name names the statistic in tables and plots.
 	Name string
@@ -57,7 +61,8 @@ type Config struct {
 }
 
 // Summary describes one statistic's bootstrap distribution. Its zero
-// value describes nothing.
+// value describes nothing. A Summary is plain data, safe to read
+// concurrently.
 type Summary struct {
 	// Name is the statistic's name, from [Statistic].
 	Name string
@@ -99,6 +104,9 @@ func (s Summary) Interval(m Method) (Interval, bool) {
 // Interval is a confidence interval for one statistic. When Err is not
 // nil the interval could not be computed, Lower and Upper are NaN, and Err
 // says why.
+//
+// An Interval is a plain value, safe to copy and share; the zero value is
+// not an interval (its Method is invalid).
 type Interval struct {
 	// Method is the method that made the interval.
 	Method Method
@@ -168,6 +176,9 @@ func (e End) String() string {
 }
 
 // Warning flags a result that was computed but may mislead.
+//
+// A Warning is a plain value, safe to copy and share; the zero value is
+// not a warning (its Kind is invalid).
 type Warning struct {
 	// Kind is what is wrong.
 	Kind WarningKind
@@ -204,6 +215,9 @@ func (w Warning) String() string {
 // including the case where every replicate failed. It unwraps to
 // [ErrTooFewReplicates] and to the first few replicate errors, so
 // errors.Is(err, fit.ErrSingular) works when fits failed for that reason.
+//
+// Errors of this type are not modified after they are returned and are
+// safe to read concurrently.
 type TooFewError struct {
 	// Name is the statistic's name.
 	Name string

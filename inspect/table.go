@@ -32,6 +32,9 @@ import (
 //
 // Numbers are written in Go's shortest round-trip form. The column names
 // and their order are stable; the text layout of WriteTo is not.
+//
+// The zero value is an empty table (no rows). Writing a Table
+// only reads it, so it may be written from several goroutines at once.
 type Table []Summary
 
 var tableHeader = []string{"statistic", "method", "level", "lower", "upper", "estimate", "boot_mean",
