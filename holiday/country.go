@@ -207,14 +207,24 @@ func Country(code string) (*Almanac, error) {
 	if a, ok := countries[c]; ok {
 		return a, nil
 	}
-	var subs []string
+	var subs, related, national []string
+	country, _, regional := strings.Cut(c, "-")
 	for _, k := range Codes() {
-		if strings.HasPrefix(k, c+"-") {
+		switch {
+		case strings.HasPrefix(k, c+"-"):
 			subs = append(subs, k)
+		case regional && (k == country || strings.HasPrefix(k, country+"-")):
+			related = append(related, k)
+		case !strings.Contains(k, "-"):
+			national = append(national, k)
 		}
 	}
-	if len(subs) > 0 {
+	switch {
+	case len(subs) > 0:
 		return nil, fmt.Errorf("%w: %q has regional calendars only: %s", ErrUnknownCode, code, strings.Join(subs, ", "))
+	case len(related) > 0:
+		return nil, fmt.Errorf("%w: %q; the calendars of %s are %s", ErrUnknownCode, code, country, strings.Join(related, ", "))
 	}
-	return nil, fmt.Errorf("%w: %q (see holiday.Codes)", ErrUnknownCode, code)
+	return nil, fmt.Errorf("%w: %q; the national calendars are %s (ECB: the European Central Bank), and regional ones are written like DE-BY or AU-NSW (holiday.Codes lists all)",
+		ErrUnknownCode, code, strings.Join(national, ", "))
 }

@@ -191,6 +191,9 @@ func TestCountryUnknown(t *testing.T) {
 		{"not a code", "XX", `"XX"`},
 		{"no national list", "AU", "AU-NSW"},
 		{"unknown region", "DE-XX", `"DE-XX"`},
+		{"unknown region lists its country's calendars", "DE-XX", "the calendars of DE are DE, DE-BB, DE-BE"},
+		{"unknown country lists the countries", "XX", "the national calendars are AR, AT, BE, "},
+		{"unknown country mentions the region form", "ZZ", "regional ones are written like DE-BY"},
 		{"aa is not offered", "AA", `"AA"`},
 	} {
 		t.Run(tt.name, func(t *testing.T) {
