@@ -27,7 +27,14 @@ type Data struct {
 	Extra *features.Table
 	// Weights, if not nil, are case weights, one per row, passed to the
 	// estimator multiplied by each replicate's in-bag multiplicity or
-	// weight (see [Run]).
+	// weight (see [Run]). The estimator reads the product as its own kind
+	// of weights (precision weights for the built-in ones), so a
+	// replicate's estimates are those of its copied rows, but its residual
+	// degrees of freedom count distinct rows: its standard errors, and so
+	// the studentized interval, come out too large by about
+	// √((Σcounts − p)/(distinct rows − p)), some 25% for an ordinary
+	// bootstrap. The percentile, basic, normal and BCa intervals use only
+	// the estimates and are not affected.
 	Weights []float64
 }
 
