@@ -239,7 +239,10 @@ func histogram(st Statistic, s Summary, c plotConfig, width vg.Length) (*plot.Pl
 
 	title := name
 	if lost := len(st.Values) - len(vals); lost > 0 {
-		title += fmt.Sprintf(" (%d of %d replicates unusable)", lost, len(st.Values))
+		// The words of the summaries: the histogram shows the replicates
+		// that could estimate the statistic (neither failed nor not
+		// estimable).
+		title += fmt.Sprintf(" (estimable in %d of %d replicates)", len(vals), len(st.Values))
 	}
 	desc := ""
 	iv, ok := pickInterval(s, c.mark)

@@ -34,8 +34,8 @@ func TestWrapText(t *testing.T) {
 		cut   bool // whether a word must be cut short with an ellipsis
 	}{
 		{"fits on one line", "slope", 5 * vg.Centimeter, 1, false},
-		{"unusable count wraps", "coronation_of_king_charles_iii (360 of 999 replicates unusable)", 6 * vg.Centimeter, 2, false},
-		{"existing breaks kept", "christmas_day (124 of 999 replicates unusable)\nestimate 12.35, 95% percentile [10.88, 13.69]", 5 * vg.Centimeter, 3, false},
+		{"estimable count wraps", "coronation_of_king_charles_iii (estimable in 639 of 999 replicates)", 6 * vg.Centimeter, 2, false},
+		{"existing breaks kept", "christmas_day (estimable in 875 of 999 replicates)\nestimate 12.35, 95% percentile [10.88, 13.69]", 5 * vg.Centimeter, 3, false},
 		{"underscores break a long name", "state_funeral_of_queen_elizabeth_ii", 3 * vg.Centimeter, 2, false},
 		{"indicator level breaks at =", "weekday_of_the_long_name=Saturday", 3 * vg.Centimeter, 2, false},
 		{"no break point: ellipsis", "Supercalifragilisticexpialidocious", 2 * vg.Centimeter, 1, true},
@@ -76,7 +76,7 @@ func TestWrapText(t *testing.T) {
 	}
 }
 
-// TestHistogramTitlesFit draws long names and unusable counts in a
+// TestHistogramTitlesFit draws long names and estimable counts in a
 // 3-column grid and checks every panel's title and x label against the
 // width of its tile.
 func TestHistogramTitlesFit(t *testing.T) {
@@ -116,8 +116,8 @@ func TestHistogramTitlesFit(t *testing.T) {
 						t.Errorf("%.0f cm wide, panel (%d, %d): title line %q is %.1f pt, want at most the tile's %.1f pt", size/vg.Centimeter, r+1, c+1, l, w, tile)
 					}
 				}
-				if !strings.Contains(p.Title.Text, "(360 of 999 replicates unusable)") && !strings.Contains(strings.ReplaceAll(p.Title.Text, "\n", " "), "360 of 999 replicates unusable") {
-					t.Errorf("panel (%d, %d): title %q lost the unusable count", r+1, c+1, p.Title.Text)
+				if !strings.Contains(p.Title.Text, "(estimable in 639 of 999 replicates)") && !strings.Contains(strings.ReplaceAll(p.Title.Text, "\n", " "), "estimable in 639 of 999 replicates") {
+					t.Errorf("panel (%d, %d): title %q lost the estimable count", r+1, c+1, p.Title.Text)
 				}
 				for _, l := range strings.Split(p.X.Label.Text, "\n") {
 					if w := p.X.Label.TextStyle.Width(l); w > tile-15*vg.Millimeter {
