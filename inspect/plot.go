@@ -43,6 +43,7 @@ type plotConfig struct {
 	mark          Method
 	title         string
 	unit          string
+	unitOf        func(statistic string) string
 	dpi           int
 }
 
@@ -89,6 +90,18 @@ func PlotTitle(s string) PlotOption { return func(c *plotConfig) { c.title = s }
 // PlotUnit names the unit of the values (the statistics of a histogram
 // grid, or the outcome of a scatter), shown in the axis labels.
 func PlotUnit(s string) PlotOption { return func(c *plotConfig) { c.unit = s } }
+
+// PlotUnitOf names the unit of each histogram panel's values, for grids
+// whose statistics do not share one (a coefficient per year next to
+// coefficients in the outcome's unit). f is called with each statistic's
+// name; an empty result falls back to the unit of [PlotUnit]. It panics if
+// f is nil.
+func PlotUnitOf(f func(statistic string) string) PlotOption {
+	if f == nil {
+		panic("inspect: PlotUnitOf: nil function")
+	}
+	return func(c *plotConfig) { c.unitOf = f }
+}
 
 // PlotDPI sets the resolution of PNG output; the default is 150. It panics
 // if dpi < 1.
@@ -215,7 +228,13 @@ func histogram(st Statistic, s Summary, c plotConfig, width vg.Length) (*plot.Pl
 	p.X.Tick.Marker = niceTicks{room: width - 15*vg.Millimeter, sty: p.X.Tick.Label}
 	p.Y.Tick.Marker = niceTicks{}
 	p.Title.TextStyle.Font.Size = vg.Points(11)
-	p.X.Label.Text = c.label("value")
+	pc := c
+	if c.unitOf != nil {
+		if u := c.unitOf(st.Name); u != "" {
+			pc.unit = u
+		}
+	}
+	p.X.Label.Text = pc.label("value")
 	p.Y.Label.Text = "replicates"
 	p.X.Label.TextStyle.Font.Size = vg.Points(10)
 	p.Y.Label.TextStyle.Font.Size = vg.Points(10)

@@ -231,3 +231,38 @@ func TestHistogramTitleFixedPoint(t *testing.T) {
 		t.Errorf("got title %q, want the estimate as \"10,780\" and no exponent", title)
 	}
 }
+
+// TestPlotUnitOf checks that a per-statistic unit reaches its panel's x
+// label and that an empty answer falls back to PlotUnit.
+func TestPlotUnitOf(t *testing.T) {
+	g := rand.New(rand.NewPCG(5, 6))
+	var stats []Statistic
+	var sums []Summary
+	for _, n := range []string{"trend.years", "weekend"} {
+		st := Statistic{Name: n, Estimate: 1}
+		for range 200 {
+			st.Values = append(st.Values, 1+g.NormFloat64())
+		}
+		s, err := Summarize(st, Config{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		stats, sums = append(stats, st), append(sums, s)
+	}
+	f, err := Histograms(stats, sums, PlotUnit("listeners"), PlotUnitOf(func(name string) string {
+		if name == "trend.years" {
+			return "listeners per year"
+		}
+		return ""
+	}))
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := []string{"value (listeners per year)", "value (listeners)"}
+	for k, w := range want {
+		p := f.panels[0][k]
+		if got := strings.ReplaceAll(p.X.Label.Text, "\n", " "); got != w {
+			t.Errorf("panel %d x label %q, want %q", k+1, got, w)
+		}
+	}
+}
