@@ -170,64 +170,6 @@ func (w *solveWork) mu(k int) []float64 {
 	return w.m[:k]
 }
 
-// cholEquilibrated equilibrates the symmetric k × k matrix a (row-major,
-// both triangles) by d = √diag(a), factorises it as L·Lᵀ in place (L in
-// the lower triangle), writes its inverse into inv and returns its
-// estimated 1-norm condition number. It reports false if a diagonal entry
-// is not positive or the factorisation breaks down. b is scratch.
-func cholEquilibrated(a []float64, k int, d, inv, b []float64) (float64, bool) {
-	for i := range k {
-		if !(a[i*k+i] > 0) {
-			return 0, false
-		}
-		d[i] = math.Sqrt(a[i*k+i])
-	}
-	norm1 := 0.0
-	for i := range k {
-		s := 0.0
-		for j := range k {
-			a[i*k+j] /= d[i] * d[j]
-			s += math.Abs(a[i*k+j])
-		}
-		norm1 = max(norm1, s)
-	}
-	for j := range k {
-		s := a[j*k+j]
-		for c := range j {
-			s -= a[j*k+c] * a[j*k+c]
-		}
-		if !(s > 0) {
-			return 0, false
-		}
-		ljj := math.Sqrt(s)
-		a[j*k+j] = ljj
-		for i := j + 1; i < k; i++ {
-			s := a[i*k+j]
-			for c := range j {
-				s -= a[i*k+c] * a[j*k+c]
-			}
-			a[i*k+j] = s / ljj
-		}
-	}
-	for c := range k {
-		clear(b[:k])
-		b[c] = 1
-		cholSolve(a, k, b)
-		for i := range k {
-			inv[i*k+c] = b[i]
-		}
-	}
-	ninv := 0.0
-	for i := range k {
-		s := 0.0
-		for j := range k {
-			s += math.Abs(inv[i*k+j])
-		}
-		ninv = max(ninv, s)
-	}
-	return norm1 * ninv, true
-}
-
 // fallbackRidge fits replicate r by Ridge.FitRidge with the counts (times
 // the weights) as case weights, which gives the coefficients of the
 // materialised replicate.
