@@ -282,23 +282,11 @@ func (e *batchEngine) fullDataColumns(std Standardization) ([]int, bool) {
 	return kept, e.fullDataSolves(std, kept)
 }
 
+// fullDataSolves reports whether the whole data's normal equations over the
+// kept columns pass the checks of the batched solve.
 func (e *batchEngine) fullDataSolves(std Standardization, kept []int) bool {
-	m := newStdMap(std, kept)
-	l := newLayout(len(kept))
-	sums := make([]float64, l.q)
-	z := make([]float64, l.q)
-	row := make([]float64, e.src.p)
-	u := make([]float64, len(kept))
-	for i := range e.src.n {
-		e.src.row(i, row)
-		v := m.standardise(u, row, e.y[i])
-		l.fill(z, u, v, e.weight(i))
-		for t, zt := range z {
-			sums[t] += zt
-		}
-	}
 	out := newRepFit(e.src.p)
-	return m.solve(l, sums, e.condLimit, newSolveWork(len(kept)), &out)
+	return newStdMap(std, kept).solve(newLayout(len(kept)), e.fullDataSums(std, kept), e.condLimit, newSolveWork(len(kept)), &out)
 }
 
 func newRepFit(p int) repFit {
