@@ -5,6 +5,7 @@ import (
 	"math"
 	"slices"
 
+	"github.com/kalends/kalends/internal/quantile"
 	"gonum.org/v1/gonum/stat/distuv"
 )
 
@@ -99,7 +100,7 @@ func Quantile(p float64, rule QuantileRule, sorted []float64) float64 {
 	case DavisonHinkley:
 		return quantileDH(p, sorted)
 	case R7:
-		return quantileR7(p, sorted)
+		return quantile.R7(sorted, p)
 	}
 	panic("inspect: Quantile: invalid rule")
 }
@@ -122,15 +123,6 @@ func quantileDH(p float64, t []float64) float64 {
 	zk := distuv.UnitNormal.Quantile(float64(k) / float64(b+1))
 	zk1 := distuv.UnitNormal.Quantile(float64(k+1) / float64(b+1))
 	return t[k-1] + (z-zk)/(zk1-zk)*(t[k]-t[k-1])
-}
-
-func quantileR7(p float64, t []float64) float64 {
-	h := float64(len(t)-1) * p
-	j := int(math.Floor(h))
-	if j >= len(t)-1 {
-		return t[len(t)-1]
-	}
-	return t[j] + (h-float64(j))*(t[j+1]-t[j])
 }
 
 // interior reports whether reading the p quantile of b values by rule stays

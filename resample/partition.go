@@ -7,6 +7,8 @@ import (
 	"slices"
 	"strconv"
 	"strings"
+
+	"github.com/kalends/kalends/internal/quantile"
 )
 
 // Partition assigns each of n rows to exactly one class: a stratum for the
@@ -138,7 +140,7 @@ func (q Quantiles) Classes(n int) ([]Class, error) {
 	slices.Sort(sorted)
 	cuts := make([]float64, k-1)
 	for j := range cuts {
-		cuts[j] = quantile7(sorted, float64(j+1)/float64(k))
+		cuts[j] = quantile.R7(sorted, float64(j+1)/float64(k))
 	}
 	cells := make([][]int, k)
 	for i, v := range q.Values {
@@ -174,15 +176,4 @@ func (q Quantiles) Classes(n int) ([]Class, error) {
 		c.Label = strings.Join(names, "+")
 	}
 	return classes, nil
-}
-
-// quantile7 returns the type-7 quantile of sorted at probability p.
-func quantile7(sorted []float64, p float64) float64 {
-	h := float64(len(sorted)-1) * p
-	lo := math.Floor(h)
-	i := int(lo)
-	if i+1 >= len(sorted) {
-		return sorted[len(sorted)-1]
-	}
-	return sorted[i] + (h-lo)*(sorted[i+1]-sorted[i])
 }
