@@ -296,7 +296,7 @@ func summarizeEffects(coef *inspect.Kept[[]fit.Coefficient], x *features.Table) 
 		case "intercept":
 			e.Label, e.True = "baseline, 2011 (season averaged)", trueIntercept
 		case "trend.years":
-			e.Label, e.True = "trend, per year", trueTrend
+			e.Label, e.True = trendLabel, trueTrend
 		case "month.sin":
 			e.Label, e.True = "season, sine of month", trueSeasonSin
 		case "month.cos":
@@ -391,19 +391,26 @@ func writeOutputs(dir string, rows []broadcast, effects []effect, sums []inspect
 	// and each broadcast's audience against its mean out-of-bag
 	// prediction. The panels carry the report's labels. The coefficients
 	// do not share one unit (the trend's is thousand listeners per year),
-	// so the title gives the units rather than every x axis.
+	// so the trend's panel gets its own.
 	var hs []inspect.Statistic
 	var hsum []inspect.Summary
 	for i, st := range stats {
 		if effects[i].Broadcasts > 1 {
 			sum := sums[i]
-			st.Name, sum.Name = panelName(effects[i]), panelName(effects[i])
+			st.Name, sum.Name = effects[i].Label, effects[i].Label
 			hs, hsum = append(hs, st), append(hsum, sum)
 		}
 	}
 	hist, err := inspect.Histograms(hs, hsum, inspect.PlotMark(inspect.Percentile), inspect.PlotColumns(4),
-		inspect.PlotTitle(fmt.Sprintf("Bootstrap replicates of each coefficient, in thousand listeners (the trend in thousand "+
-			"listeners per year); solid: full-data estimate; dashed: %g%% percentile interval", 100*level)))
+		inspect.PlotUnit("thousand listeners"),
+		inspect.PlotUnitOf(func(label string) string {
+			if label == trendLabel {
+				return "thousand listeners per year"
+			}
+			return ""
+		}),
+		inspect.PlotTitle(fmt.Sprintf("Bootstrap replicates of each coefficient; solid: full-data estimate; dashed: %g%% percentile interval",
+			100*level)))
 	if err != nil {
 		return err
 	}
@@ -430,14 +437,6 @@ func writeOutputs(dir string, rows []broadcast, effects []effect, sums []inspect
 		}
 	}
 	return nil
-}
-
-// panelName is an effect's label as a histogram panel shows it.
-func panelName(e effect) string {
-	if e.Name == "trend.years" {
-		return "trend (thousand listeners per year)"
-	}
-	return e.Label
 }
 
 // writeBroadcasts writes the invented data, one row per broadcast.
@@ -478,3 +477,6 @@ func writeEffects(w io.Writer, effects []effect) error {
 	cw.Flush()
 	return cw.Error()
 }
+
+// trendLabel is the trend's label in the report and on its histogram panel.
+const trendLabel = "trend, per year"

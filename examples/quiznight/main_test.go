@@ -341,10 +341,10 @@ func TestEffectsFile(t *testing.T) {
 	}
 }
 
-// TestHistogramUnits checks the units of coefficients.svg: the trend is in
-// thousand listeners per year, not in the outcome's unit, so no x axis
-// claims one unit for all panels, and the panels carry the report's labels
-// (the one-off days, which have no interval, have no panel).
+// TestHistogramUnits checks the units of coefficients.svg: the trend's
+// axis is in thousand listeners per year, the others in thousand
+// listeners, and the panels carry the report's labels (the one-off days,
+// which have no interval, have no panel).
 func TestHistogramUnits(t *testing.T) {
 	_, dir := runDemo(t, 19)
 	svg, err := os.ReadFile(filepath.Join(dir, "coefficients.svg"))
@@ -352,13 +352,16 @@ func TestHistogramUnits(t *testing.T) {
 		t.Fatal(err)
 	}
 	text := string(svg)
-	for _, want := range []string{"trend (thousand listeners per year)", "in thousand listeners (the trend in thousand listeners per year)",
-		"Christmas Day", "baseline, 2011 (season averaged)"} {
+	for _, want := range []string{trendLabel, "value (thousand listeners per year)",
+		"value (thousand listeners)", "Christmas Day", "baseline, 2011 (season averaged)"} {
 		if !strings.Contains(text, want) {
 			t.Errorf("coefficients.svg does not say %q", want)
 		}
 	}
-	for _, unwanted := range []string{"value (thousand listeners)", "trend.years", "Platinum Jubilee"} {
+	if n := strings.Count(text, "value (thousand listeners per year)"); n != 1 {
+		t.Errorf("coefficients.svg has %d axes in thousand listeners per year, want 1 (the trend's)", n)
+	}
+	for _, unwanted := range []string{"trend.years", "Platinum Jubilee"} {
 		if strings.Contains(text, unwanted) {
 			t.Errorf("coefficients.svg says %q", unwanted)
 		}
