@@ -13,7 +13,11 @@
 //   - [Statistics]: whole-fit statistics ([Stats]);
 //   - [FrequencyWeigher], on the Fitter: a copy that reads weights as row
 //     counts, which resampling runs ask for so that a bootstrap replicate
-//     needs no copied rows.
+//     needs no copied rows;
+//   - [CountFitter], on the Fitter: FitCounts(x, y, weights, counts) fits
+//     rows repeated counts[i] times, each copy keeping its weight, so
+//     that a replicate of weighted data counts its copies in the degrees
+//     of freedom ([OLS] has it; [GLM] and [Ridge] do not).
 //
 // # Writing an estimator
 //

@@ -97,6 +97,20 @@ type FrequencyWeigher interface {
 	FrequencyWeighted() Fitter
 }
 
+// CountFitter is implemented by estimators that can fit replicated rows
+// without copying them. FitCounts fits the data in which row i appears
+// counts[i] times, each copy with case weight weights[i] (weights == nil
+// means all 1; the weights keep the meaning Fit gives them), and gives the
+// estimates, standard errors, degrees of freedom and fit statistics of Fit
+// on those rows materialised. Unlike a fit with weights counts[i]·weights[i],
+// this keeps precision weights and row counts apart, so that the residual
+// degrees of freedom count copies. counts == nil means every row once;
+// otherwise len(counts) must equal len(y). Resampling runs use it when the
+// data carry case weights. FitCounts keeps the promises of [Fitter.Fit].
+type CountFitter interface {
+	FitCounts(x mat.Matrix, y, weights, counts []float64) (Predictor, error)
+}
+
 // Stats are the whole-fit statistics of a model. Fields an estimator does
 // not compute are NaN.
 //
@@ -104,7 +118,8 @@ type FrequencyWeigher interface {
 // statistic of any fit (NaN marks the fields not computed).
 type Stats struct {
 	// Rows is the number of rows used (the sum of frequency weights, or
-	// the number of rows with a non-zero weight for precision weights).
+	// the number of rows with a non-zero weight for precision weights,
+	// copies counted for [CountFitter]).
 	Rows float64
 	// Params is the number of estimable coefficients.
 	Params int

@@ -11,6 +11,7 @@ import (
 var (
 	_ Fitter           = OLS{}
 	_ FrequencyWeigher = OLS{}
+	_ CountFitter      = OLS{}
 	_ Predictor        = (*OLSFit)(nil)
 	_ Coefficients     = (*OLSFit)(nil)
 	_ Covariance       = (*OLSFit)(nil)
@@ -76,6 +77,30 @@ func (o OLS) Fit(x mat.Matrix, y, weights []float64) (Predictor, error) {
 	return m, nil
 }
 
+// FitCounts fits the linear model to the data in which row i appears
+// counts[i] times, each copy with weight weights[i] of the kind o.Weights
+// (nil weights: all 1), without copying rows, and returns an *OLSFit. Its
+// estimates, standard errors of every CovKind (the HC leverages are those
+// of one copy), residual degrees of freedom (Σ counts over the rows with a
+// positive weight, minus the rank), residual standard error, R², F and
+// log-likelihood (summed over the copies, as R's logLik.lm) are those of
+// [OLS.FitOLS] on the expanded data, to rounding. With Frequency weights
+// row i stands for counts[i]·weights[i] rows. Counts need not be integers;
+// a row of count zero is left out as a row of weight zero is, and the
+// rank tolerance and the check for too few rows use the distinct rows, as
+// [OLS.FrequencyWeighted] does. counts == nil is Fit.
+//
+// FitCounts returns the errors of FitOLS, and a *[DataError] named
+// "counts" for a NaN, infinite or negative count. It panics as FitOLS does
+// and if counts is not nil and len(counts) != len(y).
+func (o OLS) FitCounts(x mat.Matrix, y, weights, counts []float64) (Predictor, error) {
+	m, err := o.fitOLS(x, y, weights, counts)
+	if err != nil {
+		return nil, err
+	}
+	return m, nil
+}
+
 // FitOLS fits the linear model y ≈ x·β by weighted least squares.
 //
 // Coefficients are named from x if it implements [Namer], else "x1", "x2",
@@ -90,6 +115,11 @@ func (o OLS) Fit(x mat.Matrix, y, weights []float64) (Predictor, error) {
 // nil and len(weights) != len(y), if x has no columns, or if o.Weights or
 // o.Cov is not a valid kind.
 func (o OLS) FitOLS(x mat.Matrix, y, weights []float64) (*OLSFit, error) {
+	return o.fitOLS(x, y, weights, nil)
+}
+
+// fitOLS is FitOLS with optional row multiplicities (see [OLS.FitCounts]).
+func (o OLS) fitOLS(x mat.Matrix, y, weights, counts []float64) (*OLSFit, error) {
 	if o.Weights != Precision && o.Weights != Frequency {
 		panic(fmt.Sprintf("fit: invalid weight kind %d", int(o.Weights)))
 	}
@@ -100,9 +130,12 @@ func (o OLS) FitOLS(x mat.Matrix, y, weights []float64) (*OLSFit, error) {
 	if weights != nil && len(weights) != n {
 		panic(fmt.Sprintf("fit: weights have %d values, design has %d rows", len(weights), n))
 	}
+	if counts != nil && len(counts) != n {
+		panic(fmt.Sprintf("fit: counts have %d values, design has %d rows", len(counts), n))
+	}
 	data := rowMajor(x)
 	names := columnNames(x, p)
-	ls, err := leastSquares(data, n, p, y, weights, lsSpec{Freq: o.Weights == Frequency, Tol: o.Tol, Cov: o.Cov})
+	ls, err := leastSquares(data, n, p, y, weights, counts, lsSpec{Freq: o.Weights == Frequency, Tol: o.Tol, Cov: o.Cov})
 	if err != nil {
 		if de, ok := err.(*DataError); ok && de.Column > 0 && de.Name == "" {
 			de.Name = names[de.Column-1]

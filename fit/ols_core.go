@@ -54,20 +54,27 @@ type lsFit struct {
 	resid     []float64 // n residuals y − Xb (unweighted), every row
 	rss       float64   // Σ w e²
 	tss       float64   // Σ w (y − ȳ)² with an intercept, Σ w y² without
-	nobs      float64   // rows used: count of w > 0, or Σ w for frequency
-	sumLogW   float64   // Σ log w over rows used (precision weights only)
+	nobs      float64   // rows used: count of w > 0, Σ w for frequency, Σ c with counts
+	sumLogW   float64   // Σ log w (Σ c log a with counts) over rows used (precision weights only)
 	cond      float64   // 1-norm condition number of R of the equilibrated estimable design
 	refined   bool
 }
 
 // leastSquares fits y on the n×p row-major design x with optional weights
-// w (nil means all ones). It validates the data and returns a *DataError
-// (Column 1-based, 0 for outcome or weights, Name "outcome" or "weights")
-// for NaN, ±Inf or negative weights, an error wrapping ErrBadValue if every
-// weight is zero, and one wrapping ErrTooFewRows if fewer rows have a
-// positive weight than there are columns that are not constant. It panics
-// on length mismatch. x, y and w are not modified or retained.
-func leastSquares(x []float64, n, p int, y, w []float64, spec lsSpec) (*lsFit, error) {
+// w (nil means all ones) and optional row multiplicities c (nil means every
+// row once). With c, row i stands for c[i] copies, each of weight w[i]: the
+// fit uses the weights c[i]·w[i], and with precision weights (spec.Freq
+// false) counts Σ c over the rows used as observations, sums c[i]·log w[i]
+// for the log-likelihood and takes per-copy leverages, so that every
+// number is that of the expanded data. With c and w == nil it is the
+// frequency-weighted fit with weights c. It validates the data and returns
+// a *DataError (Column 1-based, 0 for outcome, weights or counts, Name
+// "outcome", "weights" or "counts") for NaN, ±Inf or negative weights or
+// counts, an error wrapping ErrBadValue if every weight is zero, and one
+// wrapping ErrTooFewRows if fewer rows have a positive weight than there
+// are columns that are not constant. It panics on length mismatch. x, y, w
+// and c are not modified or retained.
+func leastSquares(x []float64, n, p int, y, w, c []float64, spec lsSpec) (*lsFit, error) {
 	if len(x) != n*p {
 		panic(fmt.Sprintf("fit: design has %d values, want %d×%d", len(x), n, p))
 	}
@@ -77,6 +84,9 @@ func leastSquares(x []float64, n, p int, y, w []float64, spec lsSpec) (*lsFit, e
 	if w != nil && len(w) != n {
 		panic(fmt.Sprintf("fit: weights have %d values, design has %d rows", len(w), n))
 	}
+	if c != nil && len(c) != n {
+		panic(fmt.Sprintf("fit: counts have %d values, design has %d rows", len(c), n))
+	}
 	if p == 0 {
 		panic("fit: design has no columns")
 	}
@@ -85,8 +95,24 @@ func leastSquares(x []float64, n, p int, y, w []float64, spec lsSpec) (*lsFit, e
 	}
 	s := solverPool.Get().(*lsSolver)
 	s.x, s.n, s.p, s.y, s.w, s.spec = x, n, p, y, w, spec
+	s.a, s.c, s.copies = nil, nil, false
+	switch {
+	case c == nil:
+	case w == nil:
+		s.w, s.c = c, c // frequency weights c
+		s.spec.Freq = true
+	default:
+		// Row i stands for c[i] copies of weight w[i]. Invalid values
+		// give an invalid product; checkRow then names the culprit.
+		s.wc = growFloats(s.wc, n)
+		for i, v := range w {
+			s.wc[i] = v * c[i]
+		}
+		s.w, s.a, s.c = s.wc, w, c
+		s.copies = !spec.Freq
+	}
 	res, err := s.run()
-	s.x, s.y, s.w = nil, nil, nil
+	s.x, s.y, s.w, s.a, s.c = nil, nil, nil, nil, nil
 	solverPool.Put(s)
 	return res, err
 }
@@ -108,6 +134,14 @@ type lsSolver struct {
 	n, p int
 	y, w []float64
 	spec lsSpec
+
+	// With row multiplicities, w holds the products a[i]·c[i] of the
+	// caller's weights a and counts c (or c itself when a is nil), and
+	// copies reports whether the precision-weight statistics count copies.
+	a, c   []float64
+	wc     []float64 // scratch for the products
+	copies bool
+	sumC   float64 // Σ c over the rows used, when copies
 
 	nu      int       // rows used (positive weight)
 	used    []int     // their indices; unused when w == nil (all rows)
@@ -164,6 +198,8 @@ func (s *lsSolver) run() (*lsFit, error) {
 	res.nobs = float64(nu)
 	if s.w != nil && s.spec.Freq {
 		res.nobs = s.sumW
+	} else if s.copies {
+		res.nobs = s.sumC
 	}
 	res.sumLogW = s.sumLogW
 
@@ -292,7 +328,7 @@ func (s *lsSolver) scan() error {
 	}
 	s.used = s.used[:0]
 	s.sw = s.sw[:0]
-	var sumW, sy, sumLogW float64
+	var sumW, sy, sumLogW, sumC float64
 	for i := range n {
 		row := x[i*p:][:p]
 		_, _, _, _ = x0[len(row)-1], s1[len(row)-1], s2[len(row)-1], nc[len(row)-1]
@@ -343,7 +379,11 @@ func (s *lsSolver) scan() error {
 		}
 		s.used = append(s.used, i)
 		s.sw = append(s.sw, math.Sqrt(wi))
-		if !s.spec.Freq {
+		if s.copies {
+			ci := s.c[i]
+			sumLogW += ci * math.Log(s.a[i])
+			sumC += ci
+		} else if !s.spec.Freq {
 			sumLogW += math.Log(wi)
 		}
 		sumW += wi
@@ -357,7 +397,7 @@ func (s *lsSolver) scan() error {
 			return fmt.Errorf("fit: weights: all %d weights are zero: %w", n, ErrBadValue)
 		}
 	}
-	s.sumW, s.sumLogW = sumW, sumLogW
+	s.sumW, s.sumLogW, s.sumC = sumW, sumLogW, sumC
 	s.icpt, s.icptVal, s.ybar = -1, 0, 0
 	if s.nu == 0 {
 		clear(s.mean)
@@ -406,6 +446,16 @@ func (s *lsSolver) checkRow(i int) error {
 	if v := s.y[i]; math.IsNaN(v) || math.IsInf(v, 0) {
 		return &DataError{Row: i + 1, Name: "outcome", Value: v, Err: badValue(v)}
 	}
+	if s.a != nil {
+		if err := checkWeight(i, s.a[i], "weights"); err != nil {
+			return err
+		}
+	}
+	if s.c != nil {
+		if err := checkWeight(i, s.c[i], "counts"); err != nil {
+			return err
+		}
+	}
 	if s.w != nil {
 		v := s.w[i]
 		if math.IsNaN(v) || math.IsInf(v, 0) {
@@ -414,6 +464,18 @@ func (s *lsSolver) checkRow(i int) error {
 		if v < 0 {
 			return &DataError{Row: i + 1, Name: "weights", Value: v, Err: fmt.Errorf("negative weight: %w", ErrBadValue)}
 		}
+	}
+	return nil
+}
+
+// checkWeight returns the error for a NaN, infinite or negative weight or
+// count v of row i, or nil.
+func checkWeight(i int, v float64, name string) error {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return &DataError{Row: i + 1, Name: name, Value: v, Err: badValue(v)}
+	}
+	if v < 0 {
+		return &DataError{Row: i + 1, Name: name, Value: v, Err: fmt.Errorf("negative %s: %w", name[:len(name)-1], ErrBadValue)}
 	}
 	return nil
 }
@@ -996,7 +1058,9 @@ func (s *lsSolver) unscaledCov(refine bool) []float64 {
 // coordinates, z_i = R⁻ᵀPᵀa_i for the weighted row a_i, with ω_i = v_i e_i²
 // /(1−h_i)^δ, v_i = w_i for precision and 1 for frequency weights, and
 // h_i = |z_i|² (divided by w_i for frequency weights: the leverage of one
-// copy of the row).
+// copy of the row). With copies, w_i = a_i·c_i, v_i = a_i and h_i = |z_i|²/c_i:
+// c_i copies of weight a_i, each with meat a_i²e_i²x_ix_iᵀ and leverage
+// a_i·x_iᵀ(XᵀWX)⁻¹x_i.
 func (s *lsSolver) sandwich(res *lsFit) {
 	p, q := s.p, len(s.cols)
 	for k := range res.cov {
@@ -1035,6 +1099,9 @@ func (s *lsSolver) sandwich(res *lsFit) {
 		if s.spec.Freq {
 			h /= wi
 			v = 1
+		} else if s.copies {
+			h /= s.c[i]
+			v = s.a[i]
 		}
 		e := res.resid[i]
 		om := v * e * e
