@@ -25,16 +25,23 @@ type Data struct {
 	// Extra, if not nil, holds numeric columns of the caller's own, one
 	// value per row, appended to the design after the learned columns.
 	Extra *features.Table
-	// Weights, if not nil, are case weights, one per row, passed to the
-	// estimator multiplied by each replicate's in-bag multiplicity or
-	// weight (see [Run]). The estimator reads the product as its own kind
-	// of weights (precision weights for the built-in ones), so a
-	// replicate's estimates are those of its copied rows, but its residual
-	// degrees of freedom count distinct rows: its standard errors, and so
-	// the studentized interval, come out too large by about
-	// √((Σcounts − p)/(distinct rows − p)), some 25% for an ordinary
-	// bootstrap. The percentile, basic, normal and BCa intervals use only
-	// the estimates and are not affected.
+	// Weights, if not nil, are case weights, one per row, which the
+	// estimator reads as its own kind of weights (precision weights for
+	// the built-in ones). Under a scheme that draws counts, a Fitter that
+	// implements [fit.CountFitter] (fit.OLS) gets each replicate's counts
+	// and these weights apart, so the replicate is fitted as its copied
+	// rows, each keeping its weight: estimates, standard errors and
+	// degrees of freedom all count the copies. Any other Fitter, and every
+	// Fitter under a weighting scheme (the Bayesian bootstrap), gets the
+	// weights multiplied by the replicate's counts or weights (see [Run]):
+	// its estimates are still those of the copied rows, but an estimator
+	// whose degrees of freedom count rows of positive weight (fit.GLM with
+	// precision weights, for a Gamma family's dispersion and t tests)
+	// counts distinct rows, so its standard errors, and the studentized
+	// interval, come out too large by about √((Σcounts − p)/(distinct rows
+	// − p)), some 25% for an ordinary bootstrap (fit.Ridge reports no
+	// standard errors). The percentile, basic, normal and BCa intervals use
+	// only the estimates and are not affected.
 	Weights []float64
 }
 
@@ -273,6 +280,10 @@ func (m *Model) Predict(dst []float64, dates []time.Time, extra *features.Table)
 // weights; no row is copied. When Data.Weights is nil, the scheme draws
 // counts and the Fitter implements [fit.FrequencyWeigher], its
 // FrequencyWeighted estimator is used, so that counts mean row copies.
+// When Data.Weights is set, the scheme draws counts and the Fitter
+// implements [fit.CountFitter], its FitCounts gets the in-bag rows'
+// Data.Weights and counts apart, so that counts mean row copies that keep
+// their weights.
 // The model then predicts the out-of-bag rows ([Split.Out]) and the
 // callbacks run.
 //
@@ -426,6 +437,7 @@ type runner struct {
 	d            *Data
 	n            int
 	fitter, freq fit.Fitter
+	counts       fit.CountFitter // the Fitter's, when Data.Weights is set
 	keepers      []*keepBase
 	recordPanics bool
 	full         *Model
@@ -438,6 +450,9 @@ func newRunner(d *Data, opts Options, kbs []*keepBase) *runner {
 	ru := &runner{d: d, n: len(d.Dates), fitter: opts.Fitter, keepers: kbs, recordPanics: opts.RecordPanics}
 	if fw, ok := opts.Fitter.(fit.FrequencyWeigher); ok && d.Weights == nil {
 		ru.freq = fw.FrequencyWeighted()
+	}
+	if cf, ok := opts.Fitter.(fit.CountFitter); ok && d.Weights != nil {
+		ru.counts = cf
 	}
 	if d.Extra != nil {
 		ru.extraNames = d.Extra.Names()
@@ -563,6 +578,7 @@ type scratch struct {
 	in                         []int
 	learn, inDates, outDates   []time.Time
 	yIn, wIn, yOut, wOut, pred []float64
+	cIn                        []float64 // in-bag counts, for a CountFitter
 	xIn, xOut                  [][]float64
 	rep                        Replicate
 }
@@ -578,12 +594,18 @@ func (ru *runner) fitSplit(fs features.Builder, sp *resample.Split, sc *scratch,
 	sc.in = sp.InBag(sc.in[:0])
 	in, out := sc.in, sp.Out
 	sc.learn, sc.inDates, sc.yIn, sc.wIn = sc.learn[:0], sc.inDates[:0], sc.yIn[:0], sc.wIn[:0]
+	// copies: the counts go to the CountFitter apart from the weights.
+	copies := sp.Counts != nil && ru.counts != nil
+	sc.cIn = sc.cIn[:0]
 	for _, i := range in {
 		t := d.Dates[i]
 		sc.inDates = append(sc.inDates, t)
 		sc.yIn = append(sc.yIn, d.Outcome[i])
 		w := sp.Weight(i)
-		if d.Weights != nil {
+		if copies {
+			sc.cIn = append(sc.cIn, w)
+			w = d.Weights[i]
+		} else if d.Weights != nil {
 			w *= d.Weights[i]
 		}
 		sc.wIn = append(sc.wIn, w)
@@ -612,7 +634,12 @@ func (ru *runner) fitSplit(fs features.Builder, sp *resample.Split, sc *scratch,
 		fitter = ru.freq
 	}
 	*stage = "fit"
-	model, err := fitter.Fit(xIn, sc.yIn, sc.wIn)
+	var model fit.Predictor
+	if copies {
+		model, err = ru.counts.FitCounts(xIn, sc.yIn, sc.wIn, sc.cIn)
+	} else {
+		model, err = fitter.Fit(xIn, sc.yIn, sc.wIn)
+	}
 	if err != nil {
 		return err
 	}
