@@ -10,7 +10,9 @@ import "gonum.org/v1/gonum/mat"
 // built-in estimators read it as their Weights field says (see [WeightKind]).
 // A resampling run passes each replicate's in-bag multiplicities (or
 // Bayesian-bootstrap weights) as weights, after asking for frequency
-// semantics through [FrequencyWeigher] when the estimator offers it.
+// semantics through [FrequencyWeigher] when the estimator offers it; when
+// the data carry case weights it passes the counts apart through
+// [CountFitter] where offered.
 //
 // Fit must not modify x, y or weights, must not keep references to them
 // in the returned Predictor unless documented, and must be safe to call from
