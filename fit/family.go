@@ -197,3 +197,21 @@ func (f Family) logLik(y, mu, w []float64, dev, sumW float64, freq bool) float64
 	}
 	return ll
 }
+
+// binomialCoefs returns Σ c log C(m, m·y) over the rows with m > 0 and
+// c > 0: the binomial coefficients of rows with m trials, each repeated c
+// times (see [Family.logLik]).
+func binomialCoefs(y, m, c []float64) float64 {
+	ll := 0.0
+	for i, yi := range y {
+		if m[i] <= 0 || c[i] <= 0 {
+			continue
+		}
+		k := m[i] * yi
+		a, _ := math.Lgamma(m[i] + 1)
+		b, _ := math.Lgamma(k + 1)
+		d, _ := math.Lgamma(m[i] - k + 1)
+		ll += c[i] * (a - b - d)
+	}
+	return ll
+}

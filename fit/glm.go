@@ -10,6 +10,7 @@ import (
 
 var (
 	_ Fitter       = GLM{}
+	_ CountFitter  = GLM{}
 	_ Predictor    = (*GLMFit)(nil)
 	_ Coefficients = (*GLMFit)(nil)
 	_ Covariance   = (*GLMFit)(nil)
@@ -128,9 +129,41 @@ func (g GLM) FrequencyWeighted() Fitter {
 	return g
 }
 
+// FitCounts fits the model to the data in which row i appears counts[i]
+// times, each copy with prior weight weights[i] of the kind g.Weights (nil
+// weights: all 1; for Binomial each copy keeps the row's trials), without
+// copying rows, and returns a *GLMFit. Its estimates, standard errors,
+// dispersion, deviances, log-likelihood, AIC, BIC, residual degrees of
+// freedom and number of iterations are those of [GLM.FitGLM] on the
+// expanded data, to rounding: the IRLS steps use the working weights
+// times the counts, and the starting means are those each copy would get.
+// With Precision weights Rows counts the copies of the rows with a
+// positive weight (Σ counts), with Frequency weights row i stands for
+// counts[i]·weights[i] rows. Counts need not be integers; a row of count
+// zero takes no part in the fit, as a row of weight zero does (its values
+// are still checked), and the check for too few rows uses the distinct
+// rows, as Frequency weights do. counts == nil is Fit.
+//
+// FitCounts returns the errors of FitGLM, and a *[DataError] named
+// "counts" for a NaN, infinite or negative count (one named "weights" if
+// a weight times its count overflows). It panics as FitGLM does and if
+// counts is not nil and len(counts) != len(y).
+func (g GLM) FitCounts(x mat.Matrix, y, weights, counts []float64) (Predictor, error) {
+	f, err := g.fitGLM(x, y, weights, counts)
+	if err != nil {
+		return nil, err
+	}
+	return f, nil
+}
+
 // FitGLM is [GLM.Fit] returning the concrete model. Coefficients are
 // named from x if it implements [Namer], else "x1", "x2", and so on.
 func (g GLM) FitGLM(x mat.Matrix, y, weights []float64) (*GLMFit, error) {
+	return g.fitGLM(x, y, weights, nil)
+}
+
+// fitGLM is FitGLM with optional row multiplicities (see [GLM.FitCounts]).
+func (g GLM) fitGLM(x mat.Matrix, y, weights, counts []float64) (*GLMFit, error) {
 	fam := g.Family
 	if !fam.valid() {
 		panic(fmt.Sprintf("fit: GLM: invalid Family %d", int(fam)))
@@ -152,9 +185,19 @@ func (g GLM) FitGLM(x mat.Matrix, y, weights []float64) (*GLMFit, error) {
 	if tol == 0 {
 		tol = 1e-8
 	}
+	if counts != nil && len(counts) != len(y) {
+		panic(fmt.Sprintf("fit: GLM: len(counts) = %d, outcome has %d values", len(counts), len(y)))
+	}
 	d, err := readDesign("GLM", x, y, weights)
 	if err != nil {
 		return nil, err
+	}
+	// prior holds each copy's prior weight; d.w becomes prior × counts.
+	prior := d.w
+	if counts != nil {
+		if err := d.applyCounts(counts); err != nil {
+			return nil, err
+		}
 	}
 	for i, v := range y {
 		if ok, why := fam.outcomeOK(v); !ok {
@@ -162,9 +205,8 @@ func (g GLM) FitGLM(x mat.Matrix, y, weights []float64) (*GLMFit, error) {
 		}
 	}
 	n, p := d.n, d.p
-	w := d.w
 
-	s := &irls{fam: fam, d: d}
+	s := &irls{fam: fam, d: d, prior: prior, counts: counts}
 	s.alloc()
 	mu, eta := s.mu, s.eta
 	if cand := d.candidates(); d.used < cand {
@@ -175,7 +217,7 @@ func (g GLM) FitGLM(x mat.Matrix, y, weights []float64) (*GLMFit, error) {
 		if freq {
 			mu[i] = fam.start(y[i], 1)
 		} else {
-			mu[i] = fam.start(y[i], w[i])
+			mu[i] = fam.start(y[i], prior[i])
 		}
 		eta[i] = fam.link(mu[i])
 		mu[i], s.dmu[i] = fam.inverse(eta[i])
@@ -239,6 +281,8 @@ func (g GLM) FitGLM(x mat.Matrix, y, weights []float64) (*GLMFit, error) {
 type irls struct {
 	fam     Family
 	d       *estDesign
+	prior   []float64 // each copy's prior weight (d.w without counts)
+	counts  []float64 // row multiplicities, nil for one copy each
 	mu, eta []float64
 	dmu     []float64 // dμ/dη at eta
 	z       []float64 // working response, scaled
@@ -381,8 +425,16 @@ func (s *irls) result(beta []float64, dev float64, iter int, freq bool) *GLMFit 
 	cov := mat.NewSymDense(p, nil)
 	s.qr.unscaledCov(cov)
 	nobs := float64(d.used)
-	if freq {
+	switch {
+	case freq:
 		nobs = d.sumW
+	case s.counts != nil:
+		nobs = 0
+		for i, c := range s.counts {
+			if w[i] > 0 {
+				nobs += c
+			}
+		}
 	}
 	resDF := nobs - float64(rank)
 	disp := 1.0
@@ -435,7 +487,14 @@ func (s *irls) result(beta []float64, dev float64, iter int, freq bool) *GLMFit 
 			nullDev += fam.unitDeviance(y[i], nullMu, w[i])
 		}
 	}
-	ll := fam.logLik(y, s.mu, w, dev, d.sumW, freq)
+	var ll float64
+	if s.counts != nil && fam == Binomial && !freq {
+		// w folds the counts into the trials; the binomial coefficients
+		// are those of each copy's trials, once per copy.
+		ll = fam.logLik(y, s.mu, w, dev, d.sumW, true) + binomialCoefs(y, s.prior, s.counts)
+	} else {
+		ll = fam.logLik(y, s.mu, w, dev, d.sumW, freq)
+	}
 	k := float64(rank)
 	if !fam.fixedDispersion() {
 		k++

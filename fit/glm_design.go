@@ -122,6 +122,38 @@ func readDesign(who string, x mat.Matrix, y, weights []float64) (*estDesign, err
 	return d, nil
 }
 
+// applyCounts replaces the prior weights d.w by their products with the
+// row multiplicities counts (len(counts) == d.n, checked by the caller)
+// and recounts the rows used. It returns a *DataError named "counts" for
+// a NaN, infinite or negative count, one named "weights" when a product
+// overflows, and an error wrapping ErrBadValue when every product is
+// zero. The caller's weights are not modified.
+func (d *estDesign) applyCounts(counts []float64) error {
+	for i, c := range counts {
+		if err := checkWeight(i, c, "counts"); err != nil {
+			return err
+		}
+	}
+	w := make([]float64, d.n)
+	d.used, d.sumW = 0, 0
+	for i, c := range counts {
+		v := d.w[i] * c
+		if math.IsInf(v, 0) {
+			return &DataError{Row: i + 1, Name: "weights", Value: v, Err: badValue(v)}
+		}
+		w[i] = v
+		if v > 0 {
+			d.used++
+			d.sumW += v
+		}
+	}
+	d.w = w
+	if d.used == 0 {
+		return fmt.Errorf("fit: GLM: every row has weight or count zero: %w", ErrBadValue)
+	}
+	return nil
+}
+
 // intercept returns the index of the first column that takes one and the
 // same non-zero value in every row with a positive weight, or -1.
 func (d *estDesign) intercept() int {
