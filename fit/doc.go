@@ -17,7 +17,7 @@
 //   - [CountFitter], on the Fitter: FitCounts(x, y, weights, counts) fits
 //     rows repeated counts[i] times, each copy keeping its weight, so
 //     that a replicate of weighted data counts its copies in the degrees
-//     of freedom ([OLS] has it; [GLM] and [Ridge] do not).
+//     of freedom ([OLS] and [GLM] have it; [Ridge] does not).
 //
 // # Writing an estimator
 //

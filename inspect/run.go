@@ -28,16 +28,16 @@ type Data struct {
 	// Weights, if not nil, are case weights, one per row, which the
 	// estimator reads as its own kind of weights (precision weights for
 	// the built-in ones). Under a scheme that draws counts, a Fitter that
-	// implements [fit.CountFitter] (fit.OLS) gets each replicate's counts
-	// and these weights apart, so the replicate is fitted as its copied
-	// rows, each keeping its weight: estimates, standard errors and
-	// degrees of freedom all count the copies. Any other Fitter, and every
-	// Fitter under a weighting scheme (the Bayesian bootstrap), gets the
-	// weights multiplied by the replicate's counts or weights (see [Run]):
+	// implements [fit.CountFitter] (fit.OLS, fit.GLM) gets each
+	// replicate's counts and these weights apart, so the replicate is
+	// fitted as its copied rows, each keeping its weight: estimates,
+	// standard errors and degrees of freedom all count the copies. Any
+	// other Fitter, and every Fitter under a weighting scheme (the
+	// Bayesian bootstrap), gets the weights multiplied by the
+	// replicate's counts or weights (see [Run]):
 	// its estimates are still those of the copied rows, but an estimator
-	// whose degrees of freedom count rows of positive weight (fit.GLM with
-	// precision weights, for a Gamma family's dispersion and t tests)
-	// counts distinct rows, so its standard errors, and the studentized
+	// whose degrees of freedom count rows of positive weight counts
+	// distinct rows, so its standard errors, and the studentized
 	// interval, come out too large by about √((Σcounts − p)/(distinct rows
 	// − p)), some 25% for an ordinary bootstrap (fit.Ridge reports no
 	// standard errors). The percentile, basic, normal and BCa intervals use
