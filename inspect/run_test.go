@@ -135,23 +135,7 @@ func TestRunReplicateIsMaterialisedFit(t *testing.T) {
 	const tol = 1e-9 // relative; the two fits sum the same terms in different orders
 	for r := range plan.Len() {
 		sp := plan.Split(r, nil)
-		var dates []time.Time
-		var y []float64
-		for i, c := range sp.Counts {
-			for range c {
-				dates = append(dates, d.Dates[i])
-				y = append(y, d.Outcome[i])
-			}
-		}
-		enc, err := fs.Learn(dates)
-		if err != nil {
-			t.Fatal(err)
-		}
-		x, _ := features.Apply(enc, dates)
-		m, err := ols{}.Fit(x, y, nil)
-		if err != nil {
-			t.Fatal(err)
-		}
+		enc, m := copiedFit(t, d, fs, ols{}, sp)
 		for j, c := range m.(fit.Coefficients).Coefficients() {
 			got := coef.Values()[r][j]
 			if math.Abs(got.Estimate-c.Estimate) > tol*math.Max(1, math.Abs(c.Estimate)) ||
