@@ -76,35 +76,7 @@ func glmCountsCase(r *rand.Rand, fam Family, kind WeightKind, n int, collinear b
 // statistic, and exactly in Params, Iterations and the intercept.
 func compareGLMFits(t *testing.T, got, want *GLMFit, tol float64) {
 	t.Helper()
-	gc, wc := got.Coefficients(), want.Coefficients()
-	for j := range wc {
-		if gc[j].Estimable != wc[j].Estimable {
-			t.Errorf("%s: estimable %v, want %v", wc[j].Name, gc[j].Estimable, wc[j].Estimable)
-		}
-		if !relNear(gc[j].Estimate, wc[j].Estimate, tol) {
-			t.Errorf("%s: estimate %.15g, want %.15g", wc[j].Name, gc[j].Estimate, wc[j].Estimate)
-		}
-		if !relNear(gc[j].StdErr, wc[j].StdErr, tol) {
-			t.Errorf("%s: SE %.15g, want %.15g", wc[j].Name, gc[j].StdErr, wc[j].StdErr)
-		}
-	}
-	gv, wv := got.CovTo(nil), want.CovTo(nil)
-	p := gv.SymmetricDim()
-	for i := range p {
-		for j := i; j < p; j++ {
-			g, w := gv.At(i, j), wv.At(i, j)
-			if math.IsNaN(w) || math.IsNaN(g) {
-				if math.IsNaN(w) != math.IsNaN(g) {
-					t.Errorf("cov[%d,%d] = %g, want %g", i, j, g, w)
-				}
-				continue
-			}
-			// on the scale of the variances, as off-diagonals can be near 0
-			if scale := math.Sqrt(math.Abs(wv.At(i, i) * wv.At(j, j))); math.Abs(g-w) > tol*scale {
-				t.Errorf("cov[%d,%d] = %.15g, want %.15g", i, j, g, w)
-			}
-		}
-	}
+	compareCoefCov(t, got, want, tol)
 	if got.Intercept() != want.Intercept() {
 		t.Errorf("intercept %d, want %d", got.Intercept(), want.Intercept())
 	}

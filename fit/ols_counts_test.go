@@ -40,9 +40,17 @@ func expandRows(x *mat.Dense, y, w, counts []float64) (*mat.Dense, []float64, []
 	return mat.NewDense(len(ye), p, xe), ye, we
 }
 
-// compareOLSFits fails t unless got and want agree to tol in coefficients,
-// standard errors, covariance, residual df and every statistic.
-func compareOLSFits(t *testing.T, got, want *OLSFit, tol float64) {
+// inferential is what the count-fit tests compare of a fitted model.
+type inferential interface {
+	Coefficients
+	Covariance
+}
+
+// compareCoefCov fails t unless got and want agree to tol in estimable
+// flags, coefficients, standard errors and the covariance matrix, whose
+// off-diagonal entries (which can be near zero) are compared on the scale
+// of the variances.
+func compareCoefCov(t *testing.T, got, want inferential, tol float64) {
 	t.Helper()
 	gc, wc := got.Coefficients(), want.Coefficients()
 	for j := range wc {
@@ -60,21 +68,25 @@ func compareOLSFits(t *testing.T, got, want *OLSFit, tol float64) {
 	p := gv.SymmetricDim()
 	for i := range p {
 		for j := i; j < p; j++ {
-			// Off-diagonal entries can be near zero: compare them on the
-			// scale of the variances.
 			g, w := gv.At(i, j), wv.At(i, j)
-			scale := math.Sqrt(math.Abs(wv.At(i, i) * wv.At(j, j)))
 			if math.IsNaN(w) || math.IsNaN(g) {
 				if math.IsNaN(w) != math.IsNaN(g) {
 					t.Errorf("cov[%d,%d] = %g, want %g", i, j, g, w)
 				}
 				continue
 			}
-			if math.Abs(g-w) > tol*scale {
+			if scale := math.Sqrt(math.Abs(wv.At(i, i) * wv.At(j, j))); math.Abs(g-w) > tol*scale {
 				t.Errorf("cov[%d,%d] = %.15g, want %.15g", i, j, g, w)
 			}
 		}
 	}
+}
+
+// compareOLSFits fails t unless got and want agree to tol in coefficients,
+// standard errors, covariance, residual df and every statistic.
+func compareOLSFits(t *testing.T, got, want *OLSFit, tol float64) {
+	t.Helper()
+	compareCoefCov(t, got, want, tol)
 	gs, ws := got.Statistics(), want.Statistics()
 	if gs.Params != ws.Params {
 		t.Errorf("Params %d, want %d", gs.Params, ws.Params)
