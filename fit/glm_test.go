@@ -27,6 +27,29 @@ func panics(f func()) (ok bool, msg string) {
 	return false, ""
 }
 
+// misuse is a call that must panic with the package prefix.
+type misuse struct {
+	name string
+	f    func()
+}
+
+// checkMisuse runs each call and fails unless it panics with a message
+// starting "fit: ".
+func checkMisuse(t *testing.T, tests []misuse) {
+	t.Helper()
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			ok, msg := panics(tt.f)
+			if !ok {
+				t.Fatal("got no panic, want one")
+			}
+			if !strings.HasPrefix(msg, "fit: ") {
+				t.Errorf("panic message %q lacks the \"fit: \" prefix", msg)
+			}
+		})
+	}
+}
+
 // simple returns an n-row design [1, x] with x = 0, 1, ..., n−1 scaled
 // to [−1, 1], named "intercept" and "x".
 func simple(n int) namedDense {
@@ -312,10 +335,7 @@ func TestGLMFrequencyWeights(t *testing.T) {
 func TestGLMPanics(t *testing.T) {
 	x := simple(4)
 	y := []float64{1, 2, 3, 4}
-	tests := []struct {
-		name string
-		f    func()
-	}{
+	tests := []misuse{
 		{"zero Family", func() { fit.GLM{}.Fit(x, y, nil) }},
 		{"unknown Family", func() { fit.GLM{Family: 99}.Fit(x, y, nil) }},
 		{"negative MaxIter", func() { fit.GLM{Family: fit.Poisson, MaxIter: -1}.Fit(x, y, nil) }},
@@ -336,17 +356,7 @@ func TestGLMPanics(t *testing.T) {
 			m.ConfInt(nil, nil, 1)
 		}},
 	}
-	for _, tt := range tests {
-		t.Run(tt.name, func(t *testing.T) {
-			ok, msg := panics(tt.f)
-			if !ok {
-				t.Fatal("got no panic, want one")
-			}
-			if !strings.HasPrefix(msg, "fit: ") {
-				t.Errorf("panic message %q lacks the \"fit: \" prefix", msg)
-			}
-		})
-	}
+	checkMisuse(t, tests)
 }
 
 func TestFamilyString(t *testing.T) {

@@ -3,7 +3,6 @@ package fit_test
 import (
 	"errors"
 	"math"
-	"strings"
 	"testing"
 
 	"gonum.org/v1/gonum/mat"
@@ -181,10 +180,7 @@ func TestRidgeBadInput(t *testing.T) {
 func TestRidgePanics(t *testing.T) {
 	x := simple(4)
 	y := []float64{1, 2, 3, 4}
-	tests := []struct {
-		name string
-		f    func()
-	}{
+	tests := []misuse{
 		{"negative Lambda", func() { fit.Ridge{Lambda: -1}.Fit(x, y, nil) }},
 		{"NaN Lambda", func() { fit.Ridge{Lambda: math.NaN()}.Fit(x, y, nil) }},
 		{"infinite Lambda", func() { fit.Ridge{Lambda: math.Inf(1)}.Fit(x, y, nil) }},
@@ -200,17 +196,7 @@ func TestRidgePanics(t *testing.T) {
 			m.Standardized(make([]float64, 1))
 		}},
 	}
-	for _, tt := range tests {
-		t.Run(tt.name, func(t *testing.T) {
-			ok, msg := panics(tt.f)
-			if !ok {
-				t.Fatal("got no panic, want one")
-			}
-			if !strings.HasPrefix(msg, "fit: ") {
-				t.Errorf("panic message %q lacks the \"fit: \" prefix", msg)
-			}
-		})
-	}
+	checkMisuse(t, tests)
 }
 
 func TestRidgePredict(t *testing.T) {
